@@ -1,0 +1,28 @@
+import { parseArgs } from "node:util";
+import { compileTables } from "../compileTables.ts";
+import { tablesDocument } from "../tablesDocument.ts";
+import type { Command } from "./io.ts";
+import { readEffectFile } from "./readEffectFile.ts";
+
+/** `skewsmith tables EFFECT.json`: prints the tables document (spec §8) as one JSON object. */
+export const tablesCommand: Command = {
+  summary: "print every frame's coefficients, shift tables and diagnostics as JSON",
+  help: `usage: skewsmith tables EFFECT.json [--pretty]
+
+Prints the tables document (format "skewsmith.tables/1") of the effect: for every
+frame its angle, half-turn flip, coefficients kα and kβ, the row table h (one
+entry per canvas row) and column table v (one per canvas column), and the
+per-frame diagnostics (max and mean error in pixels, wrapped, clipped,
+saturated, largest shift).
+
+options:
+  --pretty   indent the JSON for reading
+`,
+  async run(args, io) {
+    const { positionals, values } = parseArgs({ args, allowPositionals: true, options: { pretty: { type: "boolean" } } });
+    const effect = await readEffectFile(positionals[0], io);
+    const doc = tablesDocument(compileTables(effect));
+    io.stdout(`${JSON.stringify(doc, null, values.pretty ? 2 : undefined)}\n`);
+    return 0;
+  },
+};
