@@ -42,28 +42,33 @@ export interface CanvasFitOptions {
   readonly align?: number;
 }
 
-/** A shift table over any integer range of rows or columns, not only the canvas's own. */
+/** Longest range an OpenTable stores; beyond it (huge shifts without a flip) each entry is computed when asked for. */
+const TABULATE_MAX = 1 << 20;
+
+/**
+ * A shift table over any integer range of rows or columns, not only the canvas's own. A shift s(k, t) is monotonic in
+ * t for every rounding rule, so the table's extremes lie at its two ends.
+ */
 class OpenTable {
-  private readonly values: Int32Array;
+  // Float64Array, not Int32Array: a shift beyond int32 must not wrap here (it makes the canvas too large, not wrong).
+  private readonly values: Float64Array | undefined;
   constructor(
     readonly lo: number,
-    hi: number,
-    at: (i: number) => number,
+    readonly hi: number,
+    private readonly at: (i: number) => number,
   ) {
-    this.values = new Int32Array(hi - lo + 1);
-    for (let i = lo; i <= hi; i++) this.values[i - lo] = at(i);
+    if (hi - lo + 1 <= TABULATE_MAX) {
+      this.values = new Float64Array(hi - lo + 1);
+      for (let i = lo; i <= hi; i++) this.values[i - lo] = at(i);
+    }
   }
   get(i: number): number {
-    return this.values[i - this.lo];
+    return this.values ? this.values[i - this.lo] : this.at(i);
   }
   range(): [number, number] {
-    let min = 0;
-    let max = 0;
-    for (const s of this.values) {
-      if (s < min) min = s;
-      if (s > max) max = s;
-    }
-    return [min, max];
+    const a = this.get(this.lo);
+    const b = this.get(this.hi);
+    return [Math.min(0, a, b), Math.max(0, a, b)];
   }
 }
 
@@ -159,8 +164,8 @@ export function canvasFit(effect: Effect, options: CanvasFitOptions = {}): Canva
   }
   const fitsNow = worstReach === 0;
   // Grow or trim the left side by whole column groups so every column keeps its group's shift.
-  const left = Math.ceil(-minX / g) * g;
-  const top = -minY;
+  const left = Math.ceil(-minX / g) * g || 0; // never −0
+  const top = -minY || 0;
   let right = maxX - (W - 1);
   let bottom = maxY - (H - 1);
   let width = W + left + right;

@@ -11,6 +11,20 @@ export function signedRange(bits: number): { min: number; max: number } {
   return { min: -(2 ** (bits - 1)), max: 2 ** (bits - 1) - 1 };
 }
 
+/**
+ * sin of an angle in degrees, exact where the true value is rational. For a rational number of degrees the only
+ * rational sines are 0, ±1/2 and ±1 (Niven's theorem), at multiples of 30°; Math.sin(π/6) is 0.49999999999999994,
+ * which would turn the exact tie nearest(1/2) (fraction 0) into 0 instead of 1. Elsewhere no tie can occur.
+ */
+function sinDegrees(degrees: number): number {
+  if (degrees % 30 === 0) {
+    const turn = (((degrees % 360) + 360) % 360) / 30; // 0 … 11
+    const exact = [0, 0.5, undefined, 1, undefined, 0.5, 0, -0.5, undefined, -1, undefined, -0.5][turn];
+    if (exact !== undefined) return exact;
+  }
+  return Math.sin((degrees * Math.PI) / 180);
+}
+
 /** The fixed-point shear coefficients of one frame: kα, kβ (integers scaled by 2^fraction) and whether either was clamped (spec §3). */
 export interface Coefficients {
   readonly alpha: number;
@@ -33,7 +47,8 @@ export function coefficients(residualDegrees: number, fixedPoint: { readonly bit
     }
     return k;
   };
+  // tan(θr/2) is rational only where it is 0 or ±1 and never lands on a tie after scaling, so Math.tan needs no help.
   const alpha = fit(-Math.tan(radians / 2));
-  const beta = fit(Math.sin(radians));
+  const beta = fit(sinDegrees(residualDegrees));
   return { alpha, beta, saturated };
 }

@@ -170,23 +170,36 @@ const effectSchema = strict(
   "format, canvas, pivot, angles, fixedPoint, rounding, halfTurn, edges, columnGroup",
 );
 
-const canvasOnly = z.object({ canvas: effectSchema.shape.canvas });
-const pivotOnly = z.object({ pivot: effectSchema.shape.pivot });
+const canvasShape = effectSchema.shape.canvas.shape;
+const pivotShape = effectSchema.shape.pivot.shape;
+/** Each axis on its own, so one bad axis does not hide a problem on the other. */
+const sizeOnly = {
+  x: z.object({ canvas: z.object({ width: canvasShape.width }) }),
+  y: z.object({ canvas: z.object({ height: canvasShape.height }) }),
+};
+const pivotOnly = {
+  x: z.object({ pivot: z.object({ x: pivotShape.x }) }),
+  y: z.object({ pivot: z.object({ y: pivotShape.y }) }),
+};
 const fixedOnly = z.object({ fixedPoint: effectSchema.shape.fixedPoint });
 const groupOnly = z.object({ columnGroup: effectSchema.shape.columnGroup });
 
 /** Checks between fields (pivot inside the canvas, fraction below bits, group within the width), run on every field that is valid by itself so all issues come out at once. */
 function crossFieldIssues(input: unknown): EffectIssue[] {
   const issues: EffectIssue[] = [];
-  const canvas = canvasOnly.safeParse(input);
-  const pivot = pivotOnly.safeParse(input);
-  if (pivot.success) {
-    for (const axis of ["x", "y"] as const) {
-      const p = pivot.data.pivot[axis];
-      const size = canvas.success ? canvas.data.canvas[axis === "x" ? "width" : "height"] : LIMITS.canvas.max;
-      if (!Number.isInteger(p / LIMITS.pivotStep) || p < 0 || p > size)
-        issues.push({ path: `pivot.${axis}`, message: `${show(p)} is not allowed; allowed a multiple of ${LIMITS.pivotStep} from 0 to ${size}` });
-    }
+  const width = sizeOnly.x.safeParse(input);
+  const height = sizeOnly.y.safeParse(input);
+  const sizes = {
+    x: width.success ? width.data.canvas.width : LIMITS.canvas.max,
+    y: height.success ? height.data.canvas.height : LIMITS.canvas.max,
+  };
+  for (const axis of ["x", "y"] as const) {
+    const pivot = pivotOnly[axis].safeParse(input);
+    if (!pivot.success) continue;
+    const p = (pivot.data.pivot as Record<"x" | "y", number>)[axis];
+    const size = sizes[axis];
+    if (!Number.isInteger(p / LIMITS.pivotStep) || p < 0 || p > size)
+      issues.push({ path: `pivot.${axis}`, message: `${show(p)} is not allowed; allowed a multiple of ${LIMITS.pivotStep} from 0 to ${size}` });
   }
   const fixed = fixedOnly.safeParse(input);
   if (fixed.success) {
@@ -195,8 +208,8 @@ function crossFieldIssues(input: unknown): EffectIssue[] {
       issues.push({ path: "fixedPoint.fraction", message: `${fraction} is not allowed; allowed a whole number from 0 to ${bits - 1} (below bits = ${bits})` });
   }
   const group = groupOnly.safeParse(input);
-  if (group.success && canvas.success && group.data.columnGroup > canvas.data.canvas.width)
-    issues.push({ path: "columnGroup", message: `${group.data.columnGroup} is not allowed; allowed a whole number from 1 to ${canvas.data.canvas.width} (the canvas width)` });
+  if (group.success && width.success && group.data.columnGroup > width.data.canvas.width)
+    issues.push({ path: "columnGroup", message: `${group.data.columnGroup} is not allowed; allowed a whole number from 1 to ${width.data.canvas.width} (the canvas width)` });
   return issues;
 }
 

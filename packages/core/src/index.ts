@@ -26,3 +26,27 @@ export type { Image, IndexedImage, RgbaImage, Rgba } from "./image.ts";
 export { decodePng, encodePng, PngError } from "./png.ts";
 export { canvasFit } from "./canvasFit.ts";
 export type { CanvasFit, CanvasFitOptions, Sides } from "./canvasFit.ts";
+
+// Exporters (issue 3): bundle, options, budget, layout and one printer per output.
+export { exportBundle, EXPORT_MAX_BYTES } from "./export/bundle.ts";
+export type { ExportBundle, BundleFile } from "./export/bundle.ts";
+export { resolveExportOptions, EXPORT_OUTPUTS, EXPORT_DEFAULTS, SIGNS, ELEMENT_CHOICES, REGISTER_BITS } from "./export/options.ts";
+export type { ExportOptions, ExportOptionsInput, ExportOutput, Sign, ElementChoice } from "./export/options.ts";
+export { ExportOptionError } from "./export/exportOptionError.ts";
+export { checkLabel, labelFromName, LABEL_MAX_LENGTH, LABEL_ALLOWED } from "./export/label.ts";
+export { exportBudget, budgetFromTables, budgetText, BUDGET_OPTIONS } from "./export/budget.ts";
+export type { BudgetReport, BudgetTable, BudgetOutput, BudgetOption } from "./export/budget.ts";
+export { exportLayout, layoutFromTables, placeTables } from "./export/layout.ts";
+export type { ExportLayout, LayoutTable, LayoutConstant, TablePlan, TablePlacement, TableRole, TablePart } from "./export/layout.ts";
+export { STORAGE_TYPES, STORAGE } from "./export/storageType.ts";
+export type { StorageType, StorageTypeName } from "./export/storageType.ts";
+export { outputFiles } from "./export/files.ts";
+export { cHeader, cSource } from "./export/c.ts";
+export { ca65Source } from "./export/ca65.ts";
+export { m68kSource } from "./export/m68k.ts";
+export { armSource } from "./export/arm.ts";
+export { z80Source } from "./export/z80.ts";
+export { binaryExport } from "./export/binary.ts";
+export type { ByteOrder } from "./export/binary.ts";
+export { tablesJson } from "./export/json.ts";
+export { runtimeSource } from "./export/runtime.ts";

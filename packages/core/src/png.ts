@@ -130,6 +130,9 @@ export function encodePng(image: Image): Uint8Array {
   const img: IndexedImage = image;
   if (img.palette.length < 1 || img.palette.length > 256)
     throw new RangeError(`palette: ${img.palette.length} colours; allowed 1 to 256`);
+  for (let i = 0; i < img.data.length; i++)
+    if (img.data[i] >= img.palette.length)
+      throw new RangeError(`pixel ${i % img.width},${Math.floor(i / img.width)}: palette index ${img.data[i]} is not allowed; allowed 0 to ${img.palette.length - 1} (the palette has ${img.palette.length} colours)`);
   const palette = img.palette.map((c) => [c[0], c[1], c[2], c[3]]);
   const png = encode({ width: img.width, height: img.height, data: img.data, channels: 1, depth: 8, palette });
   return fixTransparency(png, img.palette);

@@ -1,3 +1,5 @@
+import { budgetCommand } from "./budget.ts";
+import { exportCommand } from "./export.ts";
 import type { Command } from "./io.ts";
 import { fitCommand } from "./fit.ts";
 import { renderCommand } from "./render.ts";
@@ -8,4 +10,6 @@ export const commands: Readonly<Record<string, Command>> = {
   tables: tablesCommand,
   render: renderCommand,
   fit: fitCommand,
+  export: exportCommand,
+  budget: budgetCommand,
 };

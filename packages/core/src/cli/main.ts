@@ -22,9 +22,14 @@ export function mainHelp(): string {
 /** Runs the command line `args` (without node and script) and returns the exit code: 0 ok, 1 failure, 2 bad usage or input. */
 export async function main(args: string[], io: CliIo = processIo): Promise<number> {
   const [name, ...rest] = args;
-  if (name === undefined || name === "--help" || name === "-h" || name === "help") {
+  if (name === undefined) {
+    // A usage error: stdout carries only a command's own output, so the help goes to stderr.
+    io.stderr(mainHelp());
+    return 2;
+  }
+  if (name === "--help" || name === "-h" || name === "help") {
     io.stdout(mainHelp());
-    return name === undefined ? 2 : 0;
+    return 0;
   }
   const command = Object.hasOwn(commands, name) ? commands[name] : undefined;
   if (!command) {

@@ -1,0 +1,110 @@
+import { zipSync } from "fflate";
+import { compileShifts, compileTables } from "../compileTables.ts";
+import type { Effect } from "../effect.ts";
+import { armSource } from "./arm.ts";
+import { binaryExport } from "./binary.ts";
+import { budgetFromTables, type BudgetReport } from "./budget.ts";
+import { cHeader, cSource } from "./c.ts";
+import { ca65Source } from "./ca65.ts";
+import { alwaysFiles, outputFiles } from "./files.ts";
+import { effectFileName } from "./header.ts";
+import { tablesJson } from "./json.ts";
+import { layoutFromTables, type ExportLayout } from "./layout.ts";
+import { m68kSource } from "./m68k.ts";
+import { resolveExportOptions, type ExportOptions, type ExportOptionsInput } from "./options.ts";
+import { readmeText } from "./readme.ts";
+import { runtimeSource } from "./runtime.ts";
+import { z80Source } from "./z80.ts";
+
+/** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
+export interface BundleFile {
+  readonly name: string;
+  readonly text: string | null;
+  readonly bytes: Uint8Array;
+}
+
+/** Everything an export makes: the files, the zip holding them, the budget and the resolved options. */
+export interface ExportBundle {
+  readonly label: string;
+  readonly options: ExportOptions;
+  readonly files: readonly BundleFile[];
+  /** A zip of every file (deflate), with a fixed date so the same effect and options give the same bytes. */
+  readonly zip: Uint8Array;
+  readonly budget: BudgetReport;
+}
+
+/** Most table bytes a bundle may hold: 32 MiB, the largest cartridge ROM among the targets (a GBA cartridge; from memory). */
+export const EXPORT_MAX_BYTES = 32 * 1024 * 1024;
+
+/** Date stamped on every zip entry: the first day a zip (DOS) date can hold, so bundles are reproducible. */
+const ZIP_DATE = new Date(1980, 0, 1, 0, 0, 0);
+
+/** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted). */
+export function outputTexts(layout: ExportLayout, json: () => string): BundleFile[] {
+  const names = outputFiles(layout.label);
+  const enc = new TextEncoder();
+  const text = (name: string, t: string): BundleFile => ({ name, text: t, bytes: enc.encode(t) });
+  const raw = (name: string, bytes: Uint8Array): BundleFile => ({ name, text: null, bytes });
+  const files: BundleFile[] = [];
+  for (const output of layout.options.outputs) {
+    const n = names[output];
+    switch (output) {
+      case "c":
+        files.push(text(n[0], cHeader(layout)), text(n[1], cSource(layout)));
+        break;
+      case "6502":
+        files.push(text(n[0], ca65Source(layout)));
+        break;
+      case "68k":
+        files.push(text(n[0], m68kSource(layout)));
+        break;
+      case "arm":
+        files.push(text(n[0], armSource(layout)));
+        break;
+      case "z80":
+        files.push(text(n[0], z80Source(layout)));
+        break;
+      case "bin":
+        files.push(raw(n[0], binaryExport(layout, "little")), raw(n[1], binaryExport(layout, "big")));
+        break;
+      case "json":
+        files.push(text(n[0], json()));
+        break;
+      case "runtime":
+        files.push(text(n[0], runtimeSource(layout)));
+        break;
+    }
+  }
+  return files;
+}
+
+/**
+ * Makes the export bundle of a validated effect: README.txt, the chosen outputs (C, four assembler dialects, raw
+ * binaries, tables document, run-time routine) and the effect document, as files and as one zip. `options.name` is the
+ * effect's name (default label and headers). Throws ExportOptionError for a bad or inapplicable option, RangeError when
+ * the tables exceed EXPORT_MAX_BYTES.
+ */
+export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): ExportBundle {
+  const resolved = resolveExportOptions(options);
+  const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
+  const tables = full ?? compileShifts(effect);
+  const budget = budgetFromTables(tables, resolved);
+  if (budget.totalBytes > EXPORT_MAX_BYTES)
+    throw new RangeError(
+      `export: ${budget.totalBytes} bytes of tables is more than the ${EXPORT_MAX_BYTES} a bundle may hold (32 MiB, the largest cartridge ROM of the targets); use dedupe or half tables, fewer frames or a smaller canvas`,
+    );
+  const layout = layoutFromTables(tables, resolved);
+  const outputs = outputTexts(layout, () => tablesJson(full ?? compileTables(effect)));
+  const enc = new TextEncoder();
+  const [readmeName, effectName] = alwaysFiles(layout.label);
+  const effectText = `${JSON.stringify(effect, null, 2)}\n`;
+  const names = [readmeName, ...outputs.map((f) => f.name), effectName];
+  const readme = readmeText(layout, names, budget);
+  const files: BundleFile[] = [
+    { name: readmeName, text: readme, bytes: enc.encode(readme) },
+    ...outputs,
+    { name: effectFileName(layout.label), text: effectText, bytes: enc.encode(effectText) },
+  ];
+  const zip = zipSync(Object.fromEntries(files.map((f) => [f.name, [f.bytes, { mtime: ZIP_DATE }]])), { level: 6, mtime: ZIP_DATE });
+  return { label: layout.label, options: resolved, files, zip, budget };
+}

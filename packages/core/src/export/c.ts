@@ -1,0 +1,76 @@
+import { parameterLines, tableSummaryLines } from "./header.ts";
+import type { ExportLayout, LayoutTable } from "./layout.ts";
+import type { StorageType } from "./storageType.ts";
+
+/** A value as a C literal of the table's type that means the same on a compiler with 16-bit int (cc65, SDCC) as with 32-bit int. */
+export function cLiteral(value: number, type: StorageType): string {
+  // -2147483648 would be the negation of a literal that fits no 32-bit signed type (C99 6.4.4.1; from memory).
+  if (type.signed && value === -2147483648) return "(-2147483647 - 1)";
+  if (!type.signed && value > 2147483647) return `${value}u`;
+  return String(value);
+}
+
+/** Lines of a C block comment. */
+export function cComment(lines: readonly string[]): string[] {
+  return ["/*", ...lines.map((l) => (l ? ` * ${l}` : " *")), " */"];
+}
+
+const PER_LINE: Readonly<Record<1 | 2 | 4, number>> = { 1: 16, 2: 12, 4: 8 };
+
+function declaration(t: LayoutTable): string {
+  return `const ${t.type.c} ${t.name}[${t.dimNames.join("][")}]`;
+}
+
+/** The header `L.h`: constants, and an extern declaration of every table (C99 with `<stdint.h>`, usable from C++). */
+export function cHeader(layout: ExportLayout): string {
+  const L = layout.label;
+  const guard = `${L}_H_INCLUDED`;
+  const lines = [
+    ...cComment([
+      ...parameterLines(layout),
+      "",
+      `Declarations of the tables defined in ${L}.c (C99, <stdint.h>; C++ too).`,
+      "Tables:",
+      ...tableSummaryLines(layout).map((l) => `  ${l}`),
+    ]),
+    `#ifndef ${guard}`,
+    `#define ${guard}`,
+    "",
+    "#include <stdint.h>",
+    "",
+  ];
+  for (const k of layout.constants) lines.push(`/* ${k.description} */`, `#define ${k.name} ${k.value}`);
+  lines.push("", "#ifdef __cplusplus", 'extern "C" {', "#endif", "");
+  for (const t of layout.tables) lines.push(`/* ${t.description} */`, `extern ${declaration(t)};`);
+  lines.push("", "#ifdef __cplusplus", "}", "#endif", "", `#endif /* ${guard} */`, "");
+  return lines.join("\n");
+}
+
+function initializer(layout: ExportLayout, t: LayoutTable): string[] {
+  const per = PER_LINE[t.type.bytes];
+  const row = (start: number, end: number, indent: string) => {
+    const out: string[] = [];
+    for (let i = start; i < end; i += per) {
+      const last = Math.min(i + per, end);
+      const ops = t.values.slice(i, last).map((v) => cLiteral(v, t.type));
+      out.push(`${indent}${ops.join(", ")}${last < end ? "," : ""}`);
+    }
+    return out;
+  };
+  if (t.dims.length === 1) return row(0, t.values.length, "    ");
+  const out: string[] = [];
+  const n = t.dims[1];
+  for (let start = 0, u = 0; start < t.values.length; start += n, u++) {
+    out.push(`    /* ${layout.frameNotes[u]} */`, "    {", ...row(start, start + n, "        "), `    }${start + n < t.values.length ? "," : ""}`);
+  }
+  return out;
+}
+
+/** The source `L.c`: every table defined as a const array, for C99 and C++ compilers alike. */
+export function cSource(layout: ExportLayout): string {
+  const L = layout.label;
+  const lines = [...cComment([...parameterLines(layout), "", `Table definitions; declarations and constants are in ${L}.h.`]), `#include "${L}.h"`];
+  for (const t of layout.tables) lines.push("", `/* ${t.description} */`, `${declaration(t)} = {`, ...initializer(layout, t), "};");
+  lines.push("");
+  return lines.join("\n");
+}
