@@ -1,0 +1,67 @@
+import { qNotation } from "../effects/display.ts";
+import { EmptyState, TABLE, TCELL, THEAD, TROW } from "./ui.tsx";
+
+export interface ProfileView {
+  id: string;
+  name: string;
+  description: string;
+  canvasWidth: number;
+  canvasHeight: number;
+  fixedPointBits: number;
+  fixedPointFraction: number;
+  rounding: string;
+  halfTurn: string;
+  edges: string;
+  columnGroup: number;
+  dialects: string[];
+  labelPrefix: string;
+  effectCount: number;
+}
+
+export function ProfilesTable({ profiles, emptyHint, countLabel = "Effects" }: { profiles: ProfileView[]; emptyHint: string; countLabel?: string }) {
+  if (profiles.length === 0) return <EmptyState title="No target profiles">{emptyHint}</EmptyState>;
+  return (
+    <div className="overflow-x-auto">
+      <table className={TABLE} data-testid="profiles-table">
+        <thead className={THEAD}>
+          <tr>
+            <th scope="col" className="px-3 py-2 text-left font-medium">Profile</th>
+            <th scope="col" className="px-3 py-2 text-left font-medium">Canvas</th>
+            <th scope="col" className="px-3 py-2 text-left font-medium">Fixed point</th>
+            <th scope="col" className="px-3 py-2 text-left font-medium">Rounding</th>
+            <th scope="col" className="px-3 py-2 text-left font-medium">Half-turn</th>
+            <th scope="col" className="px-3 py-2 text-left font-medium">Edges</th>
+            <th scope="col" className="px-3 py-2 text-right font-medium">Column group</th>
+            <th scope="col" className="px-3 py-2 text-left font-medium">Export</th>
+            <th scope="col" className="px-3 py-2 text-right font-medium">{countLabel}</th>
+          </tr>
+        </thead>
+        <tbody>
+          {profiles.map((p) => (
+            <tr key={p.id} className={TROW}>
+              <td className={TCELL}>
+                <span className="font-medium text-ink-100">{p.name}</span>
+                {p.description ? <div className="max-w-72 text-xs text-ink-400">{p.description}</div> : null}
+              </td>
+              <td className={`${TCELL} num`}>
+                {p.canvasWidth} × {p.canvasHeight}
+              </td>
+              <td className={`${TCELL} num`} title={`${p.fixedPointBits} bits, ${p.fixedPointFraction} of them fraction`}>
+                {qNotation({ bits: p.fixedPointBits, fraction: p.fixedPointFraction })}
+              </td>
+              <td className={`${TCELL} text-ink-300`}>{p.rounding}</td>
+              <td className={`${TCELL} text-ink-300`}>{p.halfTurn}</td>
+              <td className={`${TCELL} text-ink-300`}>{p.edges}</td>
+              <td className={`${TCELL} num text-right`}>{p.columnGroup}</td>
+              <td className={`${TCELL} text-ink-300`}>
+                {p.dialects.length ? p.dialects.join(", ") : "—"}
+                {p.labelPrefix ? <span className="num ml-1 text-ink-500">{p.labelPrefix}*</span> : null}
+              </td>
+              <td className={`${TCELL} num text-right`}>{p.effectCount}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

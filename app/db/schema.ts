@@ -1,0 +1,321 @@
+/**
+ * Skewsmith's database schema (PostgreSQL through Drizzle). Column names are camelCase here and
+ * snake_case in SQL (the client and drizzle-kit both run with `casing: "snake_case"`).
+ * Order: enums, tables, relations, inferred types.
+ */
+import { relations, sql } from "drizzle-orm";
+import {
+  bigint,
+  check,
+  customType,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+import type { Effect as EffectDocument } from "@skewsmith/core";
+import { ROLES, type Role } from "../roles.ts";
+
+export { ROLES, type Role };
+export const roleEnum = pgEnum("role", ROLES);
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({
+  dataType: () => "bytea",
+});
+
+const timestamps = {
+  createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  updatedAt: timestamp({ withTimezone: true })
+    .notNull()
+    .defaultNow()
+    .$onUpdate(() => new Date()),
+};
+
+// ---------------------------------------------------------------------------------------------
+// Tables
+
+export const users = pgTable("users", {
+  id: uuid().primaryKey().defaultRandom(),
+  /** The account id at the sign-in provider (GitHub's numeric user id). */
+  githubId: bigint({ mode: "number" }).notNull().unique("users_github_id_key"),
+  login: text().notNull(),
+  name: text(),
+  email: text(),
+  avatarUrl: text(),
+  ...timestamps,
+});
+
+/** Server-side sessions. The cookie holds a random id; this table keys the session by that id's SHA-256. */
+export const sessions = pgTable(
+  "sessions",
+  {
+    idHash: text().primaryKey(),
+    userId: uuid().references(() => users.id, { onDelete: "cascade" }),
+    data: jsonb().$type<Record<string, unknown>>().notNull().default({}),
+    expiresAt: timestamp({ withTimezone: true }).notNull(),
+    ...timestamps,
+  },
+  (t) => [index().on(t.userId), index().on(t.expiresAt)],
+);
+
+export const teams = pgTable("teams", {
+  id: uuid().primaryKey().defaultRandom(),
+  name: text().notNull(),
+  /** A stable, URL-safe handle chosen at creation. */
+  slug: text().notNull().unique("teams_slug_key"),
+  ...timestamps,
+});
+
+export const memberships = pgTable(
+  "memberships",
+  {
+    teamId: uuid()
+      .notNull()
+      .references(() => teams.id, { onDelete: "cascade" }),
+    userId: uuid()
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    role: roleEnum().notNull(),
+    ...timestamps,
+  },
+  (t) => [primaryKey({ columns: [t.teamId, t.userId] }), index().on(t.userId)],
+);
+
+export const invitations = pgTable(
+  "invitations",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    teamId: uuid()
+      .notNull()
+      .references(() => teams.id, { onDelete: "cascade" }),
+    email: text().notNull(),
+    role: roleEnum().notNull(),
+    /** SHA-256 of the token mailed to the invitee; the token itself is never stored. */
+    tokenHash: text().notNull().unique("invitations_token_hash_key"),
+    expiresAt: timestamp({ withTimezone: true }).notNull(),
+    invitedBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    acceptedAt: timestamp({ withTimezone: true }),
+    ...timestamps,
+  },
+  (t) => [index().on(t.teamId)],
+);
+
+export const projects = pgTable(
+  "projects",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    teamId: uuid()
+      .notNull()
+      .references(() => teams.id, { onDelete: "cascade" }),
+    name: text().notNull(),
+    description: text().notNull().default(""),
+    /** Set when archived (a soft delete); cleared by restore. */
+    archivedAt: timestamp({ withTimezone: true }),
+    createdBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    ...timestamps,
+  },
+  (t) => [
+    index().on(t.teamId),
+    uniqueIndex("projects_team_live_name_key")
+      .on(t.teamId, sql`lower(${t.name})`)
+      .where(sql`${t.archivedAt} is null`),
+  ],
+);
+
+/** A team's reusable preset of target settings, shared by its projects. */
+export const targetProfiles = pgTable(
+  "target_profiles",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    teamId: uuid()
+      .notNull()
+      .references(() => teams.id, { onDelete: "cascade" }),
+    name: text().notNull(),
+    description: text().notNull().default(""),
+    canvasWidth: integer().notNull(),
+    canvasHeight: integer().notNull(),
+    /** Total bits of a fixed-point coefficient: 8, 16 or 32. */
+    fixedPointBits: integer().notNull(),
+    /** Fraction bits of a fixed-point coefficient. */
+    fixedPointFraction: integer().notNull(),
+    rounding: text().notNull(),
+    halfTurn: text().notNull(),
+    edges: text().notNull(),
+    columnGroup: integer().notNull().default(1),
+    /** Export dialects, by name (say "ca65", "c99"). */
+    dialects: text().array().notNull().default(sql`'{}'::text[]`),
+    labelPrefix: text().notNull().default(""),
+    ...timestamps,
+  },
+  (t) => [
+    uniqueIndex("target_profiles_team_name_key").on(t.teamId, sql`lower(${t.name})`),
+    check("target_profiles_bits_check", sql`${t.fixedPointBits} in (8, 16, 32)`),
+    check("target_profiles_fraction_check", sql`${t.fixedPointFraction} >= 0 and ${t.fixedPointFraction} < ${t.fixedPointBits}`),
+  ],
+);
+
+export const sprites = pgTable(
+  "sprites",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    projectId: uuid()
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    name: text().notNull(),
+    /** The indexed PNG file, as uploaded. */
+    png: bytea().notNull(),
+    width: integer().notNull(),
+    height: integer().notNull(),
+    /** Palette entries as [red, green, blue, alpha], 0–255 each. */
+    palette: jsonb().$type<[number, number, number, number][]>().notNull(),
+    uploadedBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    ...timestamps,
+  },
+  (t) => [index().on(t.projectId)],
+);
+
+export const effects = pgTable(
+  "effects",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    projectId: uuid()
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    name: text().notNull(),
+    /** The effect document (skewsmith.effect/1), stored only after core's parseEffect accepted it. */
+    document: jsonb().$type<EffectDocument>().notNull(),
+    /** Bumped on every change of the document; a save names the version it started from. */
+    version: integer().notNull().default(1),
+    targetProfileId: uuid().references(() => targetProfiles.id, { onDelete: "set null" }),
+    spriteId: uuid().references(() => sprites.id, { onDelete: "set null" }),
+    /** Set when deleted (soft, restorable for a grace period). */
+    deletedAt: timestamp({ withTimezone: true }),
+    createdBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    updatedBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    ...timestamps,
+  },
+  (t) => [
+    index().on(t.projectId),
+    uniqueIndex("effects_project_live_name_key")
+      .on(t.projectId, sql`lower(${t.name})`)
+      .where(sql`${t.deletedAt} is null`),
+    check("effects_version_check", sql`${t.version} >= 1`),
+  ],
+);
+
+export const apiTokens = pgTable(
+  "api_tokens",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    userId: uuid()
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text().notNull(),
+    /** SHA-256 of the token; the token is shown once and never stored. */
+    tokenHash: text().notNull().unique("api_tokens_token_hash_key"),
+    lastUsedAt: timestamp({ withTimezone: true }),
+    expiresAt: timestamp({ withTimezone: true }),
+    ...timestamps,
+  },
+  (t) => [index().on(t.userId)],
+);
+
+/** Who did what, when: one row per change, shown on team and project pages. */
+export const activity = pgTable(
+  "activity",
+  {
+    id: bigint({ mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    teamId: uuid()
+      .notNull()
+      .references(() => teams.id, { onDelete: "cascade" }),
+    projectId: uuid().references(() => projects.id, { onDelete: "cascade" }),
+    userId: uuid().references(() => users.id, { onDelete: "set null" }),
+    /** What happened, as a dotted verb such as "project.renamed". */
+    action: text().notNull(),
+    /** A short human-readable description. */
+    summary: text().notNull(),
+    ...timestamps,
+  },
+  (t) => [index().on(t.teamId, t.createdAt), index().on(t.projectId, t.createdAt)],
+);
+
+// ---------------------------------------------------------------------------------------------
+// Relations
+
+export const usersRelations = relations(users, ({ many }) => ({
+  memberships: many(memberships),
+  sessions: many(sessions),
+}));
+
+export const sessionsRelations = relations(sessions, ({ one }) => ({
+  user: one(users, { fields: [sessions.userId], references: [users.id] }),
+}));
+
+export const teamsRelations = relations(teams, ({ many }) => ({
+  memberships: many(memberships),
+  projects: many(projects),
+  targetProfiles: many(targetProfiles),
+  invitations: many(invitations),
+}));
+
+export const membershipsRelations = relations(memberships, ({ one }) => ({
+  team: one(teams, { fields: [memberships.teamId], references: [teams.id] }),
+  user: one(users, { fields: [memberships.userId], references: [users.id] }),
+}));
+
+export const invitationsRelations = relations(invitations, ({ one }) => ({
+  team: one(teams, { fields: [invitations.teamId], references: [teams.id] }),
+}));
+
+export const projectsRelations = relations(projects, ({ one, many }) => ({
+  team: one(teams, { fields: [projects.teamId], references: [teams.id] }),
+  effects: many(effects),
+  sprites: many(sprites),
+}));
+
+export const targetProfilesRelations = relations(targetProfiles, ({ one, many }) => ({
+  team: one(teams, { fields: [targetProfiles.teamId], references: [teams.id] }),
+  effects: many(effects),
+}));
+
+export const spritesRelations = relations(sprites, ({ one }) => ({
+  project: one(projects, { fields: [sprites.projectId], references: [projects.id] }),
+}));
+
+export const effectsRelations = relations(effects, ({ one }) => ({
+  project: one(projects, { fields: [effects.projectId], references: [projects.id] }),
+  targetProfile: one(targetProfiles, { fields: [effects.targetProfileId], references: [targetProfiles.id] }),
+  sprite: one(sprites, { fields: [effects.spriteId], references: [sprites.id] }),
+}));
+
+export const apiTokensRelations = relations(apiTokens, ({ one }) => ({
+  user: one(users, { fields: [apiTokens.userId], references: [users.id] }),
+}));
+
+export const activityRelations = relations(activity, ({ one }) => ({
+  team: one(teams, { fields: [activity.teamId], references: [teams.id] }),
+  project: one(projects, { fields: [activity.projectId], references: [projects.id] }),
+  user: one(users, { fields: [activity.userId], references: [users.id] }),
+}));
+
+// ---------------------------------------------------------------------------------------------
+// Types
+
+export type User = typeof users.$inferSelect;
+export type Session = typeof sessions.$inferSelect;
+export type Team = typeof teams.$inferSelect;
+export type Membership = typeof memberships.$inferSelect;
+export type Invitation = typeof invitations.$inferSelect;
+export type Project = typeof projects.$inferSelect;
+export type TargetProfile = typeof targetProfiles.$inferSelect;
+export type NewTargetProfile = typeof targetProfiles.$inferInsert;
+export type Sprite = typeof sprites.$inferSelect;
+export type EffectRow = typeof effects.$inferSelect;
+export type ApiToken = typeof apiTokens.$inferSelect;
+export type Activity = typeof activity.$inferSelect;

@@ -1,0 +1,76 @@
+/**
+ * One zod schema per form, shared by the page (field limits) and the action (validation).
+ * Messages are written for the person filling the form.
+ */
+import { z } from "zod";
+import { ROLES } from "./roles.ts";
+
+export const NAME_MAX = 80;
+export const DESCRIPTION_MAX = 2000;
+
+const name = (what: string) =>
+  z
+    .string({ error: `Give the ${what} a name.` })
+    .trim()
+    .min(1, `Give the ${what} a name.`)
+    .max(NAME_MAX, `Keep the ${what} name to ${NAME_MAX} characters or fewer.`)
+    .refine((v) => !/[\u0000-\u001f\u007f]/.test(v), "Names cannot contain control characters.");
+
+const id = (what: string) => z.string({ error: `Choose a ${what}.` }).uuid(`That ${what} does not exist.`);
+
+export const createTeamForm = z.object({ name: name("team") });
+
+export const renameTeamForm = z.object({ name: name("team") });
+
+export const changeRoleForm = z.object({
+  userId: id("member"),
+  role: z.enum(ROLES, { error: `Choose a role: ${ROLES.join(", ")}.` }),
+});
+
+export const memberForm = z.object({ userId: id("member") });
+
+export const projectForm = z.object({
+  name: name("project"),
+  description: z
+    .string()
+    .trim()
+    .max(DESCRIPTION_MAX, `Keep the description to ${DESCRIPTION_MAX} characters or fewer.`)
+    .default(""),
+});
+
+export const createEffectForm = z.object({
+  name: name("effect"),
+  /** Empty means "the effect keeps its own settings". */
+  targetProfileId: z
+    .string()
+    .optional()
+    .transform((v) => (v ? v : undefined))
+    .pipe(id("target profile").optional()),
+});
+
+export const effectForm = z.object({ effectId: id("effect") });
+
+export const renameEffectForm = z.object({ effectId: id("effect"), name: name("effect") });
+
+/** Field messages of a failed parse, one string per field (the first problem found). */
+export type FieldErrors = Record<string, string>;
+
+export function fieldErrors(error: z.ZodError): FieldErrors {
+  const out: FieldErrors = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join(".") || "form";
+    out[key] ??= issue.message;
+  }
+  return out;
+}
+
+/** Parses a submitted form with a schema: the data, or the field messages to show. */
+export function parseForm<S extends z.ZodType>(
+  schema: S,
+  form: FormData,
+): { ok: true; data: z.output<S> } | { ok: false; errors: FieldErrors } {
+  const values: Record<string, unknown> = {};
+  for (const [key, value] of form.entries()) if (typeof value === "string") values[key] = value;
+  const result = schema.safeParse(values);
+  return result.success ? { ok: true, data: result.data } : { ok: false, errors: fieldErrors(result.error) };
+}

@@ -1,0 +1,406 @@
+import { Form, Link, useFetcher } from "react-router";
+import type { Route } from "./+types/project";
+import { attempt, invalid, unknownIntent, type ActionResult } from "../actions.server.ts";
+import { ActivityList } from "../components/ActivityList.tsx";
+import { useFormCheck } from "../components/useFormCheck.ts";
+import { ProfilesTable } from "../components/ProfilesTable.tsx";
+import {
+  Button,
+  Crumbs,
+  EmptyState,
+  Field,
+  FormError,
+  Notice,
+  PageTitle,
+  Panel,
+  RoleBadge,
+  Select,
+  TABLE,
+  TCELL,
+  TextArea,
+  TextInput,
+  THEAD,
+  TROW,
+  Timestamp,
+} from "../components/ui.tsx";
+import { db } from "../db.server.ts";
+import { describeAngles, NEW_EFFECT_CANVAS, qNotation } from "../effects/display.ts";
+import { createEffectForm, DESCRIPTION_MAX, effectForm, NAME_MAX, parseForm, projectForm, renameEffectForm } from "../forms.ts";
+import { requireProjectRole } from "../guards.server.ts";
+import { listActivity } from "../models/activity.server.ts";
+import {
+  createEffect,
+  deleteEffect,
+  duplicateEffect,
+  getEffect,
+  listEffects,
+  renameEffect,
+  restoreEffect,
+} from "../models/effects.server.ts";
+import { archiveProject, restoreProject, updateProject } from "../models/projects.server.ts";
+import { listSprites } from "../models/sprites.server.ts";
+import { listTargetProfiles } from "../models/targetProfiles.server.ts";
+import { hasRole } from "../roles.ts";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.project.name ?? "Project"} · Skewsmith` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { team, project, role } = await requireProjectRole(request, params.projectId, "viewer");
+  const [effects, deleted, profiles, sprites, activity] = await Promise.all([
+    listEffects(db(), project.id),
+    listEffects(db(), project.id, { deleted: true }),
+    listTargetProfiles(db(), team.id, project.id),
+    listSprites(db(), project.id),
+    listActivity(db(), { teamId: team.id, projectId: project.id }, 12),
+  ]);
+  return {
+    team: { id: team.id, name: team.name },
+    project,
+    role,
+    effects: effects.map(({ document, ...e }) => ({
+      ...e,
+      canvas: `${document.canvas.width} × ${document.canvas.height}`,
+      angles: describeAngles(document.angles),
+      fixedPoint: qNotation(document.fixedPoint),
+    })),
+    deleted: deleted.map((e) => ({ id: e.id, name: e.name, deletedAt: e.deletedAt! })),
+    profiles,
+    sprites,
+    activity,
+  };
+}
+
+/** Every change on this page needs an editor (or owner); a viewer gets a 403 before anything is read. */
+export async function action({ request, params }: Route.ActionArgs) {
+  const { user, project } = await requireProjectRole(request, params.projectId, "editor");
+  const form = await request.formData();
+  const intent = String(form.get("intent") ?? "");
+  const actorId = user.id;
+
+  // Effect-level changes must name an effect of this project.
+  const effectOfProject = async () => {
+    const parsed = parseForm(effectForm, form);
+    const effect = parsed.ok ? await getEffect(db(), parsed.data.effectId) : null;
+    return effect && effect.projectId === project.id ? effect : null;
+  };
+
+  switch (intent) {
+    case "update-project": {
+      const parsed = parseForm(projectForm, form);
+      if (!parsed.ok) return invalid(intent, parsed.errors);
+      return attempt(intent, async () => {
+        await updateProject(db(), { projectId: project.id, name: parsed.data.name, description: parsed.data.description, actorId });
+        return "Project details saved.";
+      });
+    }
+    case "archive-project":
+      return attempt(intent, async () => {
+        await archiveProject(db(), { projectId: project.id, actorId });
+        return "Project archived.";
+      });
+    case "restore-project":
+      return attempt(intent, async () => {
+        await restoreProject(db(), { projectId: project.id, actorId });
+        return "Project restored.";
+      });
+    case "create-effect": {
+      const parsed = parseForm(createEffectForm, form);
+      if (!parsed.ok) return invalid(intent, parsed.errors);
+      return attempt(intent, async () => {
+        const effect = await createEffect(db(), { projectId: project.id, name: parsed.data.name, targetProfileId: parsed.data.targetProfileId, actorId });
+        return `Created ${effect.name}.`;
+      });
+    }
+    case "rename-effect": {
+      const parsed = parseForm(renameEffectForm, form);
+      if (!parsed.ok) return invalid(intent, parsed.errors, 400, String(form.get("effectId") ?? ""));
+      if (!(await effectOfProject())) return invalid(intent, { form: "That effect is not in this project." }, 404, parsed.data.effectId);
+      return attempt(intent, async () => void (await renameEffect(db(), { effectId: parsed.data.effectId, name: parsed.data.name, actorId })), parsed.data.effectId);
+    }
+    case "duplicate-effect":
+    case "delete-effect":
+    case "restore-effect": {
+      const effect = await effectOfProject();
+      if (!effect) return invalid(intent, { form: "That effect is not in this project." }, 404, String(form.get("effectId") ?? ""));
+      const change = { "duplicate-effect": duplicateEffect, "delete-effect": deleteEffect, "restore-effect": restoreEffect }[intent];
+      return attempt(intent, async () => void (await change(db(), { effectId: effect.id, actorId })), effect.id);
+    }
+    default:
+      return unknownIntent(intent);
+  }
+}
+
+type LoaderData = Route.ComponentProps["loaderData"];
+
+function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number]; canEdit: boolean }) {
+  const fetcher = useFetcher<ActionResult>({ key: `effect-${effect.id}` });
+  const renameCheck = useFormCheck(renameEffectForm);
+  const serverErrors = fetcher.data && !fetcher.data.ok ? fetcher.data.errors : undefined;
+  const errors = renameCheck.errors ?? serverErrors;
+  const renaming = renameCheck.errors !== undefined || (serverErrors !== undefined && fetcher.data?.intent === "rename-effect");
+  const busy = fetcher.state !== "idle";
+  return (
+    <tr className={TROW} data-testid={`effect-row-${effect.name}`}>
+      <td className={TCELL}>
+        <Link to={`/effects/${effect.id}`} className="font-medium text-ink-100 hover:text-glass-300">
+          {effect.name}
+        </Link>
+        <div className="text-xs text-ink-400">{effect.angles}</div>
+      </td>
+      <td className={`${TCELL} num`}>{effect.canvas}</td>
+      <td className={`${TCELL} num`}>{effect.fixedPoint}</td>
+      <td className={`${TCELL} text-ink-300`}>{effect.targetProfileName ?? <span className="text-ink-500">own settings</span>}</td>
+      <td className={`${TCELL} text-ink-300`}>{effect.spriteName ?? <span className="text-ink-500">none</span>}</td>
+      <td className={`${TCELL} num text-right`}>v{effect.version}</td>
+      <td className={TCELL}>
+        <Timestamp value={effect.updatedAt} />
+        {effect.updatedByName ? <div className="text-xs text-ink-500">by {effect.updatedByName}</div> : null}
+      </td>
+      {canEdit ? (
+        <td className={`${TCELL} text-right`}>
+          <div className="flex items-center justify-end gap-1">
+            <details className="relative" open={renaming || undefined}>
+              <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-xs text-ink-300 hover:bg-ink-800 hover:text-ink-100">Rename</summary>
+              <fetcher.Form
+                method="post"
+                onSubmit={renameCheck.onSubmit}
+                noValidate
+                className="absolute right-0 z-10 mt-1 flex w-72 flex-col gap-2 rounded-md border border-ink-600 bg-ink-850 p-3 text-left shadow-xl"
+              >
+                <input type="hidden" name="effectId" value={effect.id} />
+                <Field label="New name" name={`rename-${effect.id}`} error={errors?.name}>
+                  <TextInput id={`rename-${effect.id}`} name="name" defaultValue={effect.name} maxLength={NAME_MAX} required error={errors?.name} />
+                </Field>
+                <Button size="sm" variant="primary" name="intent" value="rename-effect" disabled={busy}>
+                  Save name
+                </Button>
+              </fetcher.Form>
+            </details>
+            <fetcher.Form method="post">
+              <input type="hidden" name="effectId" value={effect.id} />
+              <Button size="sm" variant="quiet" name="intent" value="duplicate-effect" disabled={busy}>
+                Duplicate
+              </Button>
+            </fetcher.Form>
+            <fetcher.Form method="post">
+              <input type="hidden" name="effectId" value={effect.id} />
+              <Button size="sm" variant="danger" name="intent" value="delete-effect" disabled={busy}>
+                Delete
+              </Button>
+            </fetcher.Form>
+          </div>
+          {errors && !renaming ? <p className="mt-1 text-xs text-alert-300">{Object.values(errors)[0]}</p> : null}
+        </td>
+      ) : null}
+    </tr>
+  );
+}
+
+export default function ProjectPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { team, project, role, effects, deleted, profiles, sprites, activity } = loaderData;
+  const canEdit = hasRole(role, "editor");
+  const archived = project.archivedAt !== null;
+  const errorsOf = (intent: string) => (actionData && !actionData.ok && actionData.intent === intent ? actionData.errors : undefined);
+  const detailsCheck = useFormCheck(projectForm);
+  const createCheck = useFormCheck(createEffectForm);
+  const detailsErrors = detailsCheck.errors ?? errorsOf("update-project");
+  const createErrors = createCheck.errors ?? errorsOf("create-effect");
+  const notice = actionData?.ok ? actionData.message : undefined;
+  const restoreErrors = errorsOf("restore-project") ?? errorsOf("restore-effect");
+  return (
+    <div className="flex flex-col gap-8">
+      <div>
+        <Crumbs items={[{ label: "Home", to: "/" }, { label: team.name, to: `/teams/${team.id}` }, { label: project.name }]} />
+        <PageTitle
+          title={project.name}
+          meta={
+            <>
+              <span>
+                {team.name} · your role
+              </span>
+              <RoleBadge role={role} />
+            </>
+          }
+          actions={
+            canEdit ? (
+              <Form method="post">
+                <Button variant={archived ? "primary" : "secondary"} name="intent" value={archived ? "restore-project" : "archive-project"}>
+                  {archived ? "Restore project" : "Archive project"}
+                </Button>
+              </Form>
+            ) : null
+          }
+        />
+        {project.description ? <p className="max-w-3xl whitespace-pre-line text-ink-300">{project.description}</p> : null}
+        <div className="mt-4 flex flex-col gap-3">
+          {archived ? (
+            <Notice>
+              This project is archived: it is hidden from the team's list and its effects cannot change. {canEdit ? "Restore it to work on it again." : "An editor or owner can restore it."}
+            </Notice>
+          ) : null}
+          {notice ? <Notice>{notice}</Notice> : null}
+          <FormError>{restoreErrors?.form ?? errorsOf("archive-project")?.form}</FormError>
+        </div>
+        {canEdit && !archived ? (
+          <details className="mt-4 max-w-3xl" open={detailsErrors !== undefined}>
+            <summary className="cursor-pointer text-sm text-ink-400 hover:text-ink-200">Edit name and description</summary>
+            <Form method="post" className="mt-3 flex flex-col gap-3" aria-label="Project details" onSubmit={detailsCheck.onSubmit} noValidate>
+              <Field label="Name" name="project-name" error={detailsErrors?.name}>
+                <TextInput id="project-name" name="name" defaultValue={project.name} maxLength={NAME_MAX} required error={detailsErrors?.name} />
+              </Field>
+              <Field label="Description" name="project-description" error={detailsErrors?.description}>
+                <TextArea id="project-description" name="description" defaultValue={project.description} maxLength={DESCRIPTION_MAX} error={detailsErrors?.description} />
+              </Field>
+              <FormError>{detailsErrors?.form}</FormError>
+              <div>
+                <Button variant="primary" name="intent" value="update-project">
+                  Save details
+                </Button>
+              </div>
+            </Form>
+          </details>
+        ) : null}
+      </div>
+
+      <Panel
+        title={
+          <>
+            Effects (<span className="num">{effects.length}</span>)
+          </>
+        }
+        id="effects"
+      >
+        {effects.length === 0 ? (
+          <EmptyState title="No effects in this project yet">
+            {canEdit && !archived
+              ? "Create one below: it starts as a full-turn sweep of 64 frames on the chosen target profile's canvas, ready to tune in the bench."
+              : "When an editor creates an effect, it shows up here."}
+          </EmptyState>
+        ) : (
+          <div className="overflow-x-auto">
+            <table className={TABLE} data-testid="effects-table">
+              <thead className={THEAD}>
+                <tr>
+                  <th scope="col" className="px-3 py-2 text-left font-medium">Effect</th>
+                  <th scope="col" className="px-3 py-2 text-left font-medium">Canvas</th>
+                  <th scope="col" className="px-3 py-2 text-left font-medium">Fixed point</th>
+                  <th scope="col" className="px-3 py-2 text-left font-medium">Target profile</th>
+                  <th scope="col" className="px-3 py-2 text-left font-medium">Sprite</th>
+                  <th scope="col" className="px-3 py-2 text-right font-medium">Version</th>
+                  <th scope="col" className="px-3 py-2 text-left font-medium">Last change</th>
+                  {canEdit && !archived ? (
+                    <th scope="col" className="px-3 py-2">
+                      <span className="sr-only">Actions</span>
+                    </th>
+                  ) : null}
+                </tr>
+              </thead>
+              <tbody>
+                {effects.map((e) => (
+                  <EffectRow key={e.id} effect={e} canEdit={canEdit && !archived} />
+                ))}
+              </tbody>
+            </table>
+          </div>
+        )}
+
+        {canEdit && !archived ? (
+          <Form
+            method="post"
+            className="mt-5 grid gap-3 border-t border-ink-800 pt-5 md:grid-cols-[2fr_2fr_auto] md:items-start"
+            aria-label="New effect"
+            onSubmit={createCheck.onSubmit}
+            noValidate
+          >
+            <Field label="New effect name" name="name" error={createErrors?.name}>
+              <TextInput name="name" maxLength={NAME_MAX} required placeholder="Say, Lighthouse beam" error={createErrors?.name} />
+            </Field>
+            <Field label="Target profile" name="targetProfileId" error={createErrors?.targetProfileId}>
+              <Select name="targetProfileId" defaultValue="" error={createErrors?.targetProfileId}>
+                <option value="">Own settings ({NEW_EFFECT_CANVAS} × {NEW_EFFECT_CANVAS}, Q8.8)</option>
+                {profiles.map((p) => (
+                  <option key={p.id} value={p.id}>
+                    {p.name} ({p.canvasWidth} × {p.canvasHeight}, {qNotation({ bits: p.fixedPointBits, fraction: p.fixedPointFraction })})
+                  </option>
+                ))}
+              </Select>
+            </Field>
+            <div className="md:pt-5">
+              <Button variant="primary" name="intent" value="create-effect">
+                Create effect
+              </Button>
+            </div>
+            <div className="md:col-span-3">
+              <FormError>{createErrors?.form}</FormError>
+            </div>
+          </Form>
+        ) : null}
+
+        {deleted.length > 0 ? (
+          <details className="mt-5 border-t border-ink-800 pt-4">
+            <summary className="cursor-pointer text-sm text-ink-400 hover:text-ink-200">
+              Recently deleted (<span className="num">{deleted.length}</span>)
+            </summary>
+            <ul className="mt-3 flex flex-col gap-2">
+              {deleted.map((e) => (
+                <li key={e.id} className="flex flex-wrap items-center justify-between gap-3 rounded-md bg-ink-850 px-3 py-2 text-sm">
+                  <span>
+                    <span className="text-ink-200">{e.name}</span>{" "}
+                    <span className="text-ink-500">
+                      deleted <Timestamp value={e.deletedAt} />
+                    </span>
+                  </span>
+                  {canEdit && !archived ? (
+                    <Form method="post">
+                      <input type="hidden" name="effectId" value={e.id} />
+                      <Button size="sm" name="intent" value="restore-effect">
+                        Restore
+                      </Button>
+                    </Form>
+                  ) : null}
+                </li>
+              ))}
+            </ul>
+          </details>
+        ) : null}
+      </Panel>
+
+      <Panel title="Target profiles" id="profiles">
+        <p className="mb-3 text-sm text-ink-400">
+          Shared by every project of {team.name}; the count is of this project's effects that use each one.
+        </p>
+        <ProfilesTable profiles={profiles} emptyHint="The team has no target profiles yet; effects keep their own settings." countLabel="Used here" />
+      </Panel>
+      <div className="grid gap-8 lg:grid-cols-[2fr_3fr]">
+        <Panel title="Sprites" id="sprites">
+          {sprites.length === 0 ? (
+            <EmptyState title="No sprites in this project">Sprites are indexed (palette) PNG pictures that effects turn; the demo project shows two.</EmptyState>
+          ) : (
+            <ul className="flex flex-col gap-3">
+              {sprites.map((s) => (
+                <li key={s.id} className="flex items-center gap-3">
+                  <img
+                    src={`/sprites/${s.id}/image.png`}
+                    alt={`Sprite ${s.name}`}
+                    width={48}
+                    height={48}
+                    className="pixelated h-12 w-12 rounded border border-ink-700 bg-[repeating-conic-gradient(#1d252d_0_25%,#12181e_0_50%)] bg-[length:8px_8px] object-contain"
+                  />
+                  <div className="text-sm">
+                    <div className="text-ink-100">{s.name}</div>
+                    <div className="num text-xs text-ink-400">
+                      {s.width} × {s.height} px · {s.colours} colours
+                    </div>
+                  </div>
+                </li>
+              ))}
+            </ul>
+          )}
+        </Panel>
+        <Panel title="Recent activity" id="activity">
+          <ActivityList items={activity} />
+        </Panel>
+      </div>
+    </div>
+  );
+}

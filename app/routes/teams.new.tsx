@@ -1,0 +1,45 @@
+import { redirect } from "react-router";
+import type { Route } from "./+types/teams.new";
+import { attempt, invalid } from "../actions.server.ts";
+import { CreateTeamForm } from "../components/CreateTeamForm.tsx";
+import { Crumbs, PageTitle, Panel } from "../components/ui.tsx";
+import { db } from "../db.server.ts";
+import { createTeamForm, parseForm } from "../forms.ts";
+import { requireUser } from "../guards.server.ts";
+import { createTeam } from "../models/teams.server.ts";
+
+export const meta: Route.MetaFunction = () => [{ title: "Create a team · Skewsmith" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireUser(request);
+  return null;
+}
+
+/** Any signed-in person may create a team; they become its owner. */
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const form = await request.formData();
+  const parsed = parseForm(createTeamForm, form);
+  if (!parsed.ok) return invalid("create-team", parsed.errors);
+  let teamId = "";
+  const result = await attempt("create-team", async () => {
+    teamId = (await createTeam(db(), { name: parsed.data.name, ownerId: user.id })).id;
+  });
+  if (teamId) throw redirect(`/teams/${teamId}`);
+  return result;
+}
+
+export default function NewTeam({ actionData }: Route.ComponentProps) {
+  const errors = actionData && !actionData.ok ? actionData.errors : undefined;
+  return (
+    <div className="flex max-w-2xl flex-col gap-6">
+      <div>
+        <Crumbs items={[{ label: "Home", to: "/" }, { label: "New team" }]} />
+        <PageTitle title="Create a team" meta="A team holds projects, effects, sprites and target profiles, shared by role." />
+      </div>
+      <Panel title="Team" id="team-form">
+        <CreateTeamForm errors={errors} />
+      </Panel>
+    </div>
+  );
+}

@@ -1,0 +1,126 @@
+/**
+ * Seeds the demo scenario of docs/product.md once: the invented studio Tidewell Games, its three
+ * members, a project with shared target profiles, the compass-rose emblem and the storm background.
+ * Idempotent: when the demo team exists, nothing is touched (so changes made while trying the demo stay).
+ *
+ * Run: DATABASE_URL=… node --import tsx scripts/db/seed.ts
+ */
+import { eq, sql } from "drizzle-orm";
+import { pathToFileURL } from "node:url";
+import { createDb, type Db } from "../../app/db/client.server.ts";
+import { teams } from "../../app/db/schema.ts";
+import { compassRose, stormBackground } from "../../app/demo/art.ts";
+import { DEMO_PEOPLE, DEMO_TEAM, demoPerson } from "../../app/demo/people.ts";
+import { upsertGitHubUser } from "../../app/models/users.server.ts";
+import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam } from "../../tests/factories.ts";
+
+/** The demo project and its effects, as product.md describes them. */
+export const DEMO_PROJECT = {
+  name: "Lantern Quay",
+  description: "Harbour-themed platformer for an 8-bit console: the spinning emblem of the title screen and the tilting background of the storm level.",
+} as const;
+
+export const COMPASS_EFFECT = {
+  name: "Compass rose emblem",
+  document: {
+    canvas: { width: 32, height: 32 },
+    pivot: { x: 16, y: 16 },
+    angles: { sweep: { from: 0, to: 360, frames: 64 } },
+    fixedPoint: { bits: 16, fraction: 8 },
+    edges: "wrap",
+  },
+} as const;
+
+export const STORM_EFFECT = {
+  name: "Storm background tilt",
+  document: {
+    canvas: { width: 256, height: 224 },
+    pivot: { x: 128, y: 112 },
+    angles: { sweep: { from: -12, to: 12, frames: 48, easing: "ease-in-out", includeEnd: true } },
+    fixedPoint: { bits: 16, fraction: 8 },
+    edges: "wrap",
+    columnGroup: 16,
+  },
+} as const;
+
+/** Creates the demo unless it is there already; returns whether it created it. */
+export async function seedDemo(db: Db): Promise<{ created: boolean; teamId: string }> {
+  return db.transaction(async (tx) => {
+    // One seeder at a time (two start commands racing on one database).
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtext('skewsmith.seed.demo'))`);
+    const [existing] = await tx.select().from(teams).where(eq(teams.slug, DEMO_TEAM.slug));
+    for (const p of DEMO_PEOPLE)
+      await upsertGitHubUser(tx, { githubId: p.githubId, login: p.login, name: p.name, email: p.email, avatarUrl: null });
+    if (existing) return { created: false, teamId: existing.id };
+
+    const person = async (role: "owner" | "editor" | "viewer") => {
+      const p = demoPerson(role);
+      return upsertGitHubUser(tx, { githubId: p.githubId, login: p.login, name: p.name, email: p.email, avatarUrl: null });
+    };
+    const owner = await person("owner");
+    const editor = await person("editor");
+    const viewer = await person("viewer");
+    const team = await makeTeam(tx, {
+      owner,
+      name: DEMO_TEAM.name,
+      slug: DEMO_TEAM.slug,
+      members: [
+        { user: editor, role: "editor" },
+        { user: viewer, role: "viewer" },
+      ],
+    });
+    const titleScreen = await makeTargetProfile(tx, {
+      team,
+      actor: owner,
+      name: "8-bit title screen",
+      description: "Sprite-sized canvas, 16-bit coefficients with 8 fraction bits, wrapping like the hardware scroll.",
+      canvasWidth: 32,
+      canvasHeight: 32,
+      fixedPointBits: 16,
+      fixedPointFraction: 8,
+      rounding: "nearest-away",
+      halfTurn: "flip",
+      edges: "wrap",
+      columnGroup: 1,
+      dialects: ["ca65"],
+      labelPrefix: "rose_",
+    });
+    const stormLevel = await makeTargetProfile(tx, {
+      team,
+      actor: owner,
+      name: "16-bit storm level",
+      description: "Full 256 × 224 screen; the column pass scrolls columns in groups of 16 pixels.",
+      canvasWidth: 256,
+      canvasHeight: 224,
+      fixedPointBits: 16,
+      fixedPointFraction: 8,
+      rounding: "nearest-away",
+      halfTurn: "flip",
+      edges: "wrap",
+      columnGroup: 16,
+      dialects: ["c99"],
+      labelPrefix: "storm_",
+    });
+    const project = await makeProject(tx, { team, actor: owner, ...DEMO_PROJECT });
+    const rose = await makeSprite(tx, { project, actor: editor, name: "compass-rose.png", image: compassRose(32) });
+    const storm = await makeSprite(tx, { project, actor: editor, name: "storm-harbour.png", image: stormBackground(256, 224) });
+    await makeEffect(tx, { project, actor: editor, name: COMPASS_EFFECT.name, document: COMPASS_EFFECT.document, targetProfile: titleScreen, sprite: rose });
+    await makeEffect(tx, { project, actor: editor, name: STORM_EFFECT.name, document: STORM_EFFECT.document, targetProfile: stormLevel, sprite: storm });
+    return { created: true, teamId: team.id };
+  });
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const url = process.env.DATABASE_URL;
+  if (!url) {
+    console.error("db:seed: DATABASE_URL is not set (scripts/start and scripts/test set it)");
+    process.exit(1);
+  }
+  const db = createDb(url, { max: 1 });
+  try {
+    const { created } = await seedDemo(db);
+    console.error(created ? `db:seed: created the demo team ${DEMO_TEAM.name}` : `db:seed: the demo team ${DEMO_TEAM.name} is already there`);
+  } finally {
+    await db.$client.end();
+  }
+}

@@ -1,0 +1,65 @@
+/** Browser helpers for the end-to-end tests: Debian's Chromium through playwright-core, and sign-in via the stand-in. */
+import { mkdirSync } from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import { expect, inject } from "vitest";
+import { DEMO_PEOPLE } from "../../app/demo/people.ts";
+
+export const CHROMIUM = process.env.SKEWSMITH_CHROMIUM ?? "/usr/bin/chromium";
+
+/** Flags for a headless Chromium in a container: no sandbox, no GPU, nothing that calls home. */
+export const CHROMIUM_ARGS = [
+  "--headless",
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+];
+
+const SHOTS = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../../test-results/e2e");
+
+export function appUrl(): string {
+  return inject("appUrl");
+}
+
+/** Launches Chromium; playwright gives every launch a fresh, temporary --user-data-dir. */
+export function launch(): Promise<Browser> {
+  return chromium.launch({ executablePath: CHROMIUM, args: CHROMIUM_ARGS, headless: true });
+}
+
+/** A new browser context (its own cookies) with a page on the app. */
+export async function openPage(browser: Browser): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ baseURL: appUrl(), viewport: { width: 1280, height: 900 } });
+  const page = await context.newPage();
+  return { context, page };
+}
+
+/** Signs in as a demo account the way a person does: the app's button, then the stand-in's account chooser. */
+export async function signIn(browser: Browser, login: string): Promise<{ context: BrowserContext; page: Page }> {
+  const person = DEMO_PEOPLE.find((p) => p.login === login);
+  if (!person) throw new Error(`no demo account ${login}`);
+  const { context, page } = await openPage(browser);
+  await page.goto("/");
+  await expect.poll(() => new URL(page.url()).pathname).toBe("/sign-in");
+  await page.getByRole("button", { name: "Sign in with GitHub" }).click();
+  await page.getByRole("heading", { name: /Sign in to Skewsmith as/ }).waitFor();
+  await page.getByRole("button", { name: new RegExp(`@${login}`) }).click();
+  await page.waitForURL(`${appUrl()}/`);
+  await expect.poll(() => page.getByTestId("signed-in-as").textContent()).toContain(`@${login}`);
+  return { context, page };
+}
+
+/** Saves a full-page screenshot under test-results/e2e (ignored by git) for a person to look at. */
+export async function screenshot(page: Page, name: string): Promise<void> {
+  mkdirSync(SHOTS, { recursive: true });
+  await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
+}
+
+/** The cookies of a context as one Cookie header. */
+export async function cookieHeader(context: BrowserContext): Promise<string> {
+  return (await context.cookies()).map((c) => `${c.name}=${c.value}`).join("; ");
+}

@@ -1,0 +1,139 @@
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_PEOPLE } from "../../app/demo/people.ts";
+import { launch, screenshot, signIn } from "./support.ts";
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(() => browser?.close());
+
+const tag = Date.now().toString(36);
+const row = (page: Page, name: string) => page.getByTestId(`effect-row-${name}`);
+
+describe("a person with no team", () => {
+  it("creates a team and a project, and works with effects in it", async () => {
+    const newcomer = DEMO_PEOPLE.find((p) => p.role === null)!;
+    const { context, page } = await signIn(browser, newcomer.login);
+
+    // Home, team-less: the empty state says what to do next (each test run has a fresh database).
+    await expect.poll(() => page.getByText("You are not in a team yet.").count()).toBe(1);
+    await screenshot(page, "home-newcomer");
+
+    // A name of spaces: the form's zod schema explains in the browser…
+    await page.getByLabel("Team name").first().fill("   ");
+    await page.getByRole("button", { name: "Create team" }).first().click();
+    await expect.poll(() => page.getByRole("alert").first().textContent()).toBe("Give the team a name.");
+    // …and the action, checking the same schema, answers 400 with the field message when posted anyway.
+    const posted = await page.request.post("/teams/new", { form: { intent: "create-team", name: "   " } });
+    expect(posted.status()).toBe(400);
+    expect(await posted.text()).toContain("Give the team a name.");
+
+    const teamName = `Breakwater Crew ${tag}`;
+    await page.getByLabel("Team name").first().fill(teamName);
+    await page.getByRole("button", { name: "Create team" }).first().click();
+    await page.waitForURL(/\/teams\/[0-9a-f-]{36}$/);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe(teamName);
+    await expect.poll(() => page.getByText("No projects yet").count()).toBe(1);
+    await expect.poll(() => page.getByTestId("members-table").textContent()).toContain("owner");
+
+    // A shared target profile: core refuses a fraction as wide as the word, then the fixed one is listed.
+    await page.getByText("New target profile").click();
+    await page.getByLabel("Profile name").fill("Wide screen");
+    await page.getByLabel("Canvas width").fill("256");
+    await page.getByLabel("Canvas height").fill("224");
+    await page.getByLabel("Bits", { exact: true }).selectOption("8");
+    await page.getByLabel("Fraction bits").fill("8");
+    await page.getByRole("button", { name: "Create target profile" }).click();
+    await expect.poll(() => page.getByRole("alert").first().textContent()).toBe(
+      "Fraction bits: 8 is not allowed; allowed a whole number from 0 to 7 (below bits = 8)",
+    );
+    await page.getByLabel("Fraction bits").fill("7");
+    await page.getByRole("button", { name: "Create target profile" }).click();
+    await expect.poll(() => page.getByTestId("profiles-table").textContent()).toMatch(/Wide screen.*256 × 224.*Q1\.7/);
+
+    // Projects: validation message, then a real one.
+    await page.getByLabel("New project name").fill(" ");
+    await page.getByRole("button", { name: "Create project" }).click();
+    await expect.poll(() => page.getByRole("alert").first().textContent()).toBe("Give the project a name.");
+    const longName = await page.request.post(page.url(), { form: { intent: "create-project", name: "x".repeat(81) } });
+    expect(longName.status()).toBe(400);
+    expect(await longName.text()).toContain("Keep the project name to 80 characters or fewer.");
+    await page.getByLabel("New project name").fill("Title screen");
+    await page.getByLabel("Description (optional)", { exact: true }).fill("The spinning logo before the game starts.");
+    await page.getByRole("button", { name: "Create project" }).click();
+    await page.waitForURL(/\/projects\/[0-9a-f-]{36}$/);
+    const projectUrl = page.url();
+    await expect.poll(() => page.getByText("No effects in this project yet").count()).toBe(1);
+
+    // Effects: create with the spec's defaults, rename, duplicate, delete and restore.
+    await page.getByLabel("New effect name").fill("Lighthouse beam");
+    await page.getByRole("button", { name: "Create effect" }).click();
+    await expect.poll(() => row(page, "Lighthouse beam").textContent()).toMatch(/64 × 64.*Q8\.8.*own settings.*v1/);
+    await expect.poll(() => row(page, "Lighthouse beam").textContent()).toContain("sweep 0° → 360°, 64 frames");
+
+    await page.getByLabel("New effect name").fill("Harbour tilt");
+    await page.getByLabel("Target profile", { exact: true }).selectOption({ label: "Wide screen (256 × 224, Q1.7)" });
+    await page.getByRole("button", { name: "Create effect" }).click();
+    await expect.poll(() => row(page, "Harbour tilt").textContent()).toMatch(/256 × 224.*Q1\.7.*Wide screen/);
+
+    await page.getByLabel("New effect name").fill("lighthouse BEAM");
+    await page.getByRole("button", { name: "Create effect" }).click();
+    await expect.poll(() => page.getByRole("alert").first().textContent()).toContain("already has an effect called “lighthouse BEAM”");
+
+    await row(page, "Lighthouse beam").getByText("Rename").click();
+    await row(page, "Lighthouse beam").getByLabel("New name").fill("Lighthouse sweep");
+    await row(page, "Lighthouse beam").getByRole("button", { name: "Save name" }).click();
+    await row(page, "Lighthouse sweep").waitFor();
+
+    await row(page, "Lighthouse sweep").getByRole("button", { name: "Duplicate" }).click();
+    await row(page, "Lighthouse sweep copy").waitFor();
+    await row(page, "Lighthouse sweep copy").getByRole("button", { name: "Delete" }).click();
+    await expect.poll(() => row(page, "Lighthouse sweep copy").count()).toBe(0);
+    await page.getByText("Recently deleted").click();
+    await page.getByRole("button", { name: "Restore", exact: true }).click();
+    await row(page, "Lighthouse sweep copy").waitFor();
+    await screenshot(page, "project-newcomer");
+
+    // The effect page shows its settings and the validated document.
+    await row(page, "Lighthouse sweep").getByRole("link", { name: "Lighthouse sweep" }).click();
+    await page.waitForURL(/\/effects\/[0-9a-f-]{36}$/);
+    await expect.poll(() => page.getByTestId("frame-count").textContent()).toBe("64");
+    const document = JSON.parse((await page.getByTestId("effect-document").textContent())!);
+    expect(document).toMatchObject({ format: "skewsmith.effect/1", canvas: { width: 64, height: 64 }, pivot: { x: 32, y: 32 }, columnGroup: 1 });
+    await screenshot(page, "effect-newcomer");
+
+    // Describe, archive and restore the project.
+    await page.goto(projectUrl);
+    await page.getByText("Edit name and description").click();
+    await page.getByLabel("Name", { exact: true }).fill("Title screen logo");
+    await page.getByRole("button", { name: "Save details" }).click();
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Title screen logo");
+    await page.getByRole("button", { name: "Archive project" }).click();
+    await expect.poll(() => page.getByText("This project is archived").count()).toBe(1);
+    await expect.poll(() => page.getByRole("button", { name: "Create effect" }).count()).toBe(0);
+    await page.getByRole("button", { name: "Restore project" }).click();
+    await expect.poll(() => page.getByRole("button", { name: "Create effect" }).count()).toBe(1);
+
+    // The team's project table shows the project with its effect count, and sorts.
+    await page.getByRole("navigation", { name: "Breadcrumb" }).getByRole("link", { name: teamName }).click();
+    await page.waitForURL(/\/teams\//);
+    await page.getByLabel("New project name").fill("Aaa empty");
+    await page.getByRole("button", { name: "Create project" }).click();
+    await page.waitForURL(/\/projects\//);
+    await page.goBack();
+    await page.reload();
+    const names = () => page.getByTestId("projects-table").locator("tbody tr td:first-child a").allTextContents();
+    await expect.poll(names).toEqual(["Aaa empty", "Title screen logo"]);
+    await page.getByRole("link", { name: /^Effects/ }).click();
+    await expect.poll(() => page.url()).toContain("sort=effects&dir=asc");
+    await page.getByRole("link", { name: /^Effects/ }).click();
+    await expect.poll(() => page.url()).toContain("sort=effects&dir=desc");
+    await expect.poll(names).toEqual(["Title screen logo", "Aaa empty"]);
+    const counts = await page.getByTestId("projects-table").locator("tbody tr td:nth-child(2)").allTextContents();
+    expect(counts).toEqual(["3", "0"]);
+    await screenshot(page, "team-newcomer");
+    await context.close();
+  });
+});

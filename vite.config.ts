@@ -1,0 +1,10 @@
+import { reactRouter } from "@react-router/dev/vite";
+import tailwindcss from "@tailwindcss/vite";
+import { defineConfig } from "vite";
+
+export default defineConfig({
+  plugins: [tailwindcss(), reactRouter()],
+  server: { host: "127.0.0.1" },
+  // The core package ships TypeScript source; bundle it into the server build instead of importing it at run time.
+  ssr: { noExternal: ["@skewsmith/core"] },
+});
