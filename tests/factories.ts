@@ -12,7 +12,7 @@ import { createSprite } from "../app/models/sprites.server.ts";
 import { createTargetProfile } from "../app/models/targetProfiles.server.ts";
 import { addMember, createTeam } from "../app/models/teams.server.ts";
 import { upsertGitHubUser, type GitHubProfile } from "../app/models/users.server.ts";
-import { encodeIndexedPng, type IndexedImage } from "../app/sprites/png.ts";
+import { encodePng, type IndexedImage } from "@skewsmith/core";
 
 let counter = 0;
 /** A short token that differs between calls and between test runs. */
@@ -81,7 +81,7 @@ export async function makeSprite(
   return createSprite(db, {
     projectId: input.project.id,
     name: input.name ?? `sprite-${unique()}.png`,
-    png: encodeIndexedPng(input.image ?? compassRose(16)),
+    png: encodePng(input.image ?? compassRose(16)),
     actorId: input.actor.id,
   });
 }

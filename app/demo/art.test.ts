@@ -1,16 +1,16 @@
 import { describe, expect, it } from "vitest";
 import { COMPASS_PALETTE, compassRose, stormBackground } from "./art.ts";
 
-const at = (img: ReturnType<typeof compassRose>, x: number, y: number) => img.indices[y * img.width + x];
+const at = (img: ReturnType<typeof compassRose>, x: number, y: number) => img.data[y * img.width + x];
 
 describe("compassRose", () => {
   const rose = compassRose(32);
 
   it("is a 32 × 32 indexed picture whose corners are transparent", () => {
-    expect([rose.width, rose.height, rose.indices.length]).toEqual([32, 32, 1024]);
+    expect([rose.width, rose.height, rose.data.length]).toEqual([32, 32, 1024]);
     expect([at(rose, 0, 0), at(rose, 31, 0), at(rose, 0, 31), at(rose, 31, 31)]).toEqual([0, 0, 0, 0]);
     expect(rose.palette[0][3]).toBe(0);
-    expect(Math.max(...rose.indices)).toBeLessThan(COMPASS_PALETTE.length);
+    expect(Math.max(...rose.data)).toBeLessThan(COMPASS_PALETTE.length);
   });
 
   it("marks north only: the north colour sits above the centre and nowhere below it", () => {
@@ -29,7 +29,7 @@ describe("compassRose", () => {
   });
 
   it("draws the same picture every time (the seed must be repeatable)", () => {
-    expect([...compassRose(32).indices]).toEqual([...rose.indices]);
+    expect([...compassRose(32).data]).toEqual([...rose.data]);
   });
 });
 
@@ -38,10 +38,10 @@ describe("stormBackground", () => {
     const storm = stormBackground();
     expect([storm.width, storm.height]).toEqual([256, 224]);
     expect(storm.palette.every((c) => c[3] === 255)).toBe(true);
-    expect(Math.max(...storm.indices)).toBeLessThan(storm.palette.length);
+    expect(Math.max(...storm.data)).toBeLessThan(storm.palette.length);
     // Sky above, sea below: the top row and the bottom row share no colour.
-    const top = new Set(storm.indices.subarray(0, 256));
-    const bottom = new Set(storm.indices.subarray(223 * 256));
+    const top = new Set(storm.data.subarray(0, 256));
+    const bottom = new Set(storm.data.subarray(223 * 256));
     expect([...top].filter((c) => bottom.has(c))).toEqual([]);
   });
 });

@@ -2,7 +2,7 @@
  * The demo's pictures, drawn by code at seed time: a compass-rose emblem for the title screen and a
  * stormy harbour background. Both are indexed pictures, as the targets store them.
  */
-import type { IndexedImage, Rgba } from "../sprites/png.ts";
+import type { IndexedImage, Rgba } from "@skewsmith/core";
 
 type Point = readonly [number, number];
 
@@ -16,7 +16,7 @@ function insidePolygon(x: number, y: number, polygon: readonly Point[]): boolean
   return inside;
 }
 
-/** Palette of the compass rose; index 0 is the transparent colour (and comes first, see encodeIndexedPng). */
+/** Palette of the compass rose; index 0 is the transparent colour (first, as most targets expect). */
 export const COMPASS_PALETTE: readonly Rgba[] = [
   [0, 0, 0, 0], // 0 transparent
   [20, 28, 44, 255], // 1 ink outline
@@ -78,7 +78,7 @@ export function compassRose(size = 32): IndexedImage {
       });
       if (touches) indices[y * size + x] = 1;
     }
-  return { width: size, height: size, indices, palette: COMPASS_PALETTE };
+  return { kind: "indexed", width: size, height: size, data: indices, palette: COMPASS_PALETTE };
 }
 
 /** Palette of the storm background: opaque only (a background covers the whole screen). */
@@ -167,5 +167,5 @@ export function stormBackground(width = 256, height = 224): IndexedImage {
   }
   for (let y = moleTop - 34; y < moleTop - 30; y++)
     for (let x = postX - 1; x < postX + 3; x++) indices[y * width + x] = 11;
-  return { width, height, indices, palette: STORM_PALETTE };
+  return { kind: "indexed", width, height, data: indices, palette: STORM_PALETTE };
 }
