@@ -4,7 +4,7 @@ import type { Effect } from "./effect.ts";
 import { elementType, type ElementType } from "./elementType.ts";
 import { frameAngle } from "./frameAngle.ts";
 import { frameDiagnostics, type FrameDiagnostics } from "./frameDiagnostics.ts";
-import { columnShifts, rowShifts } from "./shiftTable.ts";
+import { columnShiftsInto, rowShiftsInto } from "./shiftTable.ts";
 
 /** One compiled frame: its angles (degrees), coefficients (integers scaled by 2^F) and shift tables (whole pixels). */
 export interface FrameTables {
@@ -43,12 +43,11 @@ export function compileFrame(effect: Effect, index: number, degrees: number): Fr
   const angle = frameAngle(degrees, halfTurn);
   const { alpha, beta, saturated } = coefficients(angle.residualDegrees, fixedPoint);
   const rule = { fraction: fixedPoint.fraction, rounding };
-  const h = rowShifts(alpha, canvas.height, pivot.y * 2, rule);
-  const v = columnShifts(beta, canvas.width, pivot.x * 2, columnGroup, rule);
-  let maxAbsShift = 0;
-  for (const s of h) maxAbsShift = Math.max(maxAbsShift, Math.abs(s));
-  for (const s of v) maxAbsShift = Math.max(maxAbsShift, Math.abs(s));
-  return { index, ...angle, alpha, beta, saturated, h, v, maxAbsShift };
+  const h = new Int32Array(canvas.height);
+  rowShiftsInto(h, alpha, pivot.y * 2, rule);
+  const v = new Int32Array(canvas.width);
+  columnShiftsInto(v, beta, pivot.x * 2, columnGroup, rule);
+  return { index, ...angle, alpha, beta, saturated, h, v, maxAbsShift: Math.max(maxAbs(h), maxAbs(v)) };
 }
 
 /** Options of compileTables. */
@@ -57,22 +56,85 @@ export interface CompileOptions {
   readonly mask?: Uint8Array;
 }
 
-function tablesElementType(frames: readonly FrameTables[]): ElementType {
-  let min = 0;
-  let max = 0;
-  for (const f of frames)
-    for (const table of [f.h, f.v])
-      for (const s of table) {
-        if (s < min) min = s;
-        else if (s > max) max = s;
-      }
-  return elementType(min, max);
+function maxAbs(table: Int32Array): number {
+  let m = 0;
+  for (let i = 0; i < table.length; i++) {
+    const s = table[i];
+    const a = s < 0 ? -s : s;
+    if (a > m) m = a;
+  }
+  return m;
 }
 
-/** Compiles the shift tables of every frame of a validated effect, without diagnostics. */
+/**
+ * Tables are cut from shared buffers of at most this many int32 entries (1 MiB): a few allocations for a whole track
+ * instead of two per frame, yet small enough for the allocator to hand back memory already touched.
+ */
+const CHUNK_ENTRIES = 1 << 18;
+
+/** A table compiled once and shared by every frame with the same coefficient. */
+interface SharedTable {
+  readonly table: Int32Array;
+  readonly maxAbs: number;
+}
+
+/**
+ * Compiles the shift tables of every frame of a validated effect, without diagnostics.
+ *
+ * A table depends only on its coefficient (the canvas, pivot and rule being the effect's), and a long track repeats
+ * coefficients often (4096 frames of a full turn in Q8.8 have about 500 distinct kα), so frames with the same kα share
+ * one h table and frames with the same kβ one v table. Treat the tables as read-only: writing to one frame's table
+ * writes to every frame that shares it.
+ */
 export function compileShifts(effect: Effect): CompiledTables<FrameTables> {
-  const frames = angleTrack(effect.angles).map((degrees, i) => compileFrame(effect, i, degrees));
-  return { effect, elementType: tablesElementType(frames), frames };
+  const { canvas, pivot, fixedPoint, rounding, halfTurn, columnGroup } = effect;
+  const H = canvas.height;
+  const W = canvas.width;
+  const rule = { fraction: fixedPoint.fraction, rounding };
+  const degrees = angleTrack(effect.angles);
+  const rows = new Map<number, SharedTable>();
+  const columns = new Map<number, SharedTable>();
+  let chunk = new Int32Array(0);
+  let used = 0;
+  let min = 0;
+  let max = 0;
+  const take = (n: number, framesLeft: number): Int32Array => {
+    if (used + n > chunk.length) {
+      // Never more than the rest of the track could use, so a short track allocates little.
+      chunk = new Int32Array(Math.max(n, Math.min(CHUNK_ENTRIES, framesLeft * (H + W))));
+      used = 0;
+    }
+    used += n;
+    return chunk.subarray(used - n, used);
+  };
+  const shared = (table: Int32Array): SharedTable => {
+    for (let i = 0; i < table.length; i++) {
+      const s = table[i];
+      if (s < min) min = s;
+      else if (s > max) max = s;
+    }
+    return { table, maxAbs: maxAbs(table) };
+  };
+  const frames = degrees.map((d, index): FrameTables => {
+    const angle = frameAngle(d, halfTurn);
+    const { alpha, beta, saturated } = coefficients(angle.residualDegrees, fixedPoint);
+    let h = rows.get(alpha);
+    if (h === undefined) {
+      const table = take(H, degrees.length - index);
+      rowShiftsInto(table, alpha, pivot.y * 2, rule);
+      h = shared(table);
+      rows.set(alpha, h);
+    }
+    let v = columns.get(beta);
+    if (v === undefined) {
+      const table = take(W, degrees.length - index);
+      columnShiftsInto(table, beta, pivot.x * 2, columnGroup, rule);
+      v = shared(table);
+      columns.set(beta, v);
+    }
+    return { index, ...angle, alpha, beta, saturated, h: h.table, v: v.table, maxAbsShift: Math.max(h.maxAbs, v.maxAbs) };
+  });
+  return { effect, elementType: elementType(min, max), frames };
 }
 
 /** Compiles every frame of a validated effect with its diagnostics: what `skewsmith tables` reports (spec §8). */

@@ -12,11 +12,18 @@ export interface FrameDiagnostics {
   readonly clipped: number;
 }
 
+const NO_MASK = new Uint8Array(0);
+
+/** The table as int32 values, the way the passes read it: shared when it already is an Int32Array. */
+const int32Table = (t: ArrayLike<number>): Int32Array => (t instanceof Int32Array ? t : Int32Array.from(t));
+
 /**
  * Follows every canvas pixel (or every pixel set in `mask`, one byte per canvas pixel) through flip, row, column and
  * row pass, and compares where it lands with the ideal rotation by `degrees` (θn) about the pivot (spec §6).
  *
  * Hot loop: positions are kept in half-pixel integers and the ideal position advances by a constant step along a row.
+ * The flip and first row pass move a whole row alike, so the columns that stay inside through them form one range,
+ * found per row; only those pixels go through the per-pixel column and second row steps.
  */
 export function frameDiagnostics(
   frame: FrameShifts & { readonly degrees: number },
@@ -30,67 +37,104 @@ export function frameDiagnostics(
   const p2y = Math.round(geometry.pivot.y * 2);
   const clip = geometry.edges === "clip";
   const flip = frame.flip;
-  const h = Int32Array.from(frame.h);
-  const v = Int32Array.from(frame.v);
+  const h = int32Table(frame.h);
+  const v = int32Table(frame.v);
   const theta = (frame.degrees * Math.PI) / 180;
   const cos = Math.cos(theta);
   const sin = Math.sin(theta);
   const stepX = 2 * cos;
   const stepY = 2 * sin;
   const u0 = 1 - p2x;
+  const useMask = mask !== undefined;
+  const m8 = mask ?? NO_MASK;
 
-  let wrapped = 0;
-  let clipped = 0;
+  let out = 0;
   let inside = 0;
   let sum = 0;
   let max2 = 0;
 
-  for (let r = 0; r < H; r++) {
+  for (let r = 0, m = 0; r < H; r++, m += W) {
+    const rf = flip ? p2y - 1 - r : r;
+    // Columns c in [lo, hi) stay inside through the flip and the first row pass; the rest of the row crossed an edge.
+    let lo = 0;
+    let hi = 0;
+    let k = 0;
+    if (rf >= 0 && rf < H) {
+      const hr = h[rf];
+      if (flip) {
+        // cf = P2x−1−c and c1 = cf + h both in [0, W).
+        k = p2x - 1 + hr;
+        lo = Math.max(0, p2x - W, k - W + 1);
+        hi = Math.min(W, p2x, k + 1);
+      } else {
+        k = hr;
+        lo = Math.max(0, -hr);
+        hi = Math.min(W, W - hr);
+      }
+      if (hi <= lo) lo = hi = 0;
+    }
+    if (useMask) {
+      for (let c = 0; c < lo; c++) if (m8[m + c] !== 0) out++;
+      for (let c = hi; c < W; c++) if (m8[m + c] !== 0) out++;
+    } else out += W - (hi - lo);
+    if (lo === hi) continue;
+
     const vr = 2 * r + 1 - p2y;
-    let rf = flip ? p2y - 1 - r : r;
-    const rowOut = rf < 0 || rf >= H;
-    if (rowOut) rf = ((rf % H) + H) % H;
-    const hr = h[rf];
     let x = u0 * cos - vr * sin; // ideal position of the pixel, half-pixels from the pivot
     let y = u0 * sin + vr * cos;
-    const m = r * W;
-    for (let c = 0; c < W; c++, x += stepX, y += stepY) {
-      if (mask !== undefined && mask[m + c] === 0) continue;
-      let out = rowOut;
-      let c1 = (flip ? p2x - 1 - c : c);
-      if (c1 < 0 || c1 >= W) {
-        out = true;
-        c1 = ((c1 % W) + W) % W;
+    // The ideal position is advanced one column at a time, exactly as many additions as the columns before lo.
+    for (let c = 0; c < lo; c++) {
+      x += stepX;
+      y += stepY;
+    }
+    const dc = flip ? -1 : 1;
+    let c1 = flip ? k - lo : k + lo;
+    // The same steps with and without a mask, so that the loop without one carries no test for it.
+    if (useMask) {
+      for (let c = lo; c < hi; c++, c1 += dc, x += stepX, y += stepY) {
+        if (m8[m + c] === 0) continue;
+        const r2 = rf + v[c1];
+        if (r2 >>> 0 >= H) {
+          out++;
+          continue;
+        }
+        const c3 = c1 + h[r2];
+        if (c3 >>> 0 >= W) {
+          out++;
+          continue;
+        }
+        const ex = 2 * c3 + 1 - p2x - x;
+        const ey = 2 * r2 + 1 - p2y - y;
+        const e2 = ex * ex + ey * ey;
+        sum += Math.sqrt(e2);
+        if (e2 > max2) max2 = e2;
+        inside++;
       }
-      c1 += hr;
-      if (c1 < 0 || c1 >= W) {
-        out = true;
-        c1 = ((c1 % W) + W) % W;
+    } else {
+      for (let c = lo; c < hi; c++, c1 += dc, x += stepX, y += stepY) {
+        const r2 = rf + v[c1];
+        if (r2 >>> 0 >= H) {
+          out++;
+          continue;
+        }
+        const c3 = c1 + h[r2];
+        if (c3 >>> 0 >= W) {
+          out++;
+          continue;
+        }
+        const ex = 2 * c3 + 1 - p2x - x;
+        const ey = 2 * r2 + 1 - p2y - y;
+        const e2 = ex * ex + ey * ey;
+        sum += Math.sqrt(e2);
+        if (e2 > max2) max2 = e2;
+        inside++;
       }
-      let r2 = rf + v[c1];
-      if (r2 < 0 || r2 >= H) {
-        out = true;
-        r2 = ((r2 % H) + H) % H;
-      }
-      const c3 = c1 + h[r2];
-      if (c3 < 0 || c3 >= W) out = true;
-      if (out) {
-        if (clip) clipped++;
-        else wrapped++;
-        continue;
-      }
-      const ex = 2 * c3 + 1 - p2x - x;
-      const ey = 2 * r2 + 1 - p2y - y;
-      const e2 = ex * ex + ey * ey;
-      sum += Math.sqrt(e2);
-      if (e2 > max2) max2 = e2;
-      inside++;
     }
   }
   return {
     maxErrorPx: Math.sqrt(max2) / 2,
     meanErrorPx: inside === 0 ? 0 : sum / inside / 2,
-    wrapped,
-    clipped,
+    wrapped: clip ? 0 : out,
+    clipped: clip ? out : 0,
   };
 }
