@@ -1,8 +1,8 @@
 import { parseArgs } from "node:util";
 import { canvasFit } from "../canvasFit.ts";
 import { opaqueMask } from "../image.ts";
-import { decodePng } from "../png.ts";
 import { UsageError, type Command } from "./io.ts";
+import { readCanvasImage } from "./readCanvasImage.ts";
 import { readEffectFile } from "./readEffectFile.ts";
 
 /** `skewsmith fit EFFECT.json [--image SPRITE.png]`: the smallest canvas on which nothing wraps or clips. */
@@ -28,19 +28,7 @@ options:
     });
     const effect = await readEffectFile(positionals[0], io);
     let mask: Uint8Array | undefined;
-    if (values.image) {
-      let image;
-      try {
-        image = decodePng(await io.readFile(values.image));
-      } catch (error) {
-        if (error instanceof Error && error.name === "PngError") throw new UsageError(`--image ${values.image}: ${error.message}`);
-        throw error;
-      }
-      const { width, height } = effect.canvas;
-      if (image.width !== width || image.height !== height)
-        throw new UsageError(`--image ${values.image}: ${image.width}×${image.height} pixels; must equal the effect's canvas, ${width}×${height}`);
-      mask = opaqueMask(image);
-    }
+    if (values.image) mask = opaqueMask(await readCanvasImage(values.image, effect, io));
     let align: number | undefined;
     if (values.align !== undefined) {
       align = Number(values.align);

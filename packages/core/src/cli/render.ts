@@ -1,9 +1,10 @@
 import { parseArgs } from "node:util";
 import { compileFrame } from "../compileTables.ts";
 import { angleTrack } from "../angleTrack.ts";
-import { decodePng, encodePng } from "../png.ts";
+import { encodePng } from "../png.ts";
 import { renderImage } from "../renderImage.ts";
 import { UsageError, type Command } from "./io.ts";
+import { readCanvasImage } from "./readCanvasImage.ts";
 import { readEffectFile } from "./readEffectFile.ts";
 
 function wholeNumberOption(name: string, text: string | undefined, min: number, max: number): number | undefined {
@@ -45,16 +46,7 @@ options:
     const frame = wholeNumberOption("frame", values.frame, 0, angles.length - 1);
     if (frame === undefined) throw new UsageError(`--frame: required; allowed a whole number from 0 to ${angles.length - 1}`);
     const pass = (wholeNumberOption("pass", values.pass, 1, 3) ?? 3) as 1 | 2 | 3;
-    let image;
-    try {
-      image = decodePng(await io.readFile(values.image));
-    } catch (error) {
-      if (error instanceof Error && error.name === "PngError") throw new UsageError(`--image ${values.image}: ${error.message}`);
-      throw error;
-    }
-    const { width, height } = effect.canvas;
-    if (image.width !== width || image.height !== height)
-      throw new UsageError(`--image ${values.image}: ${image.width}×${image.height} pixels; must equal the effect's canvas, ${width}×${height}`);
+    const image = await readCanvasImage(values.image, effect, io);
     const tables = compileFrame(effect, frame, angles[frame]);
     await io.writeFile(values.out, encodePng(renderImage(image, tables, effect, pass)));
     return 0;
