@@ -1,13 +1,8 @@
 import { data } from "react-router";
-import type { FieldErrors } from "./forms.ts";
+import type { ActionResult, FieldErrors } from "./forms.ts";
 import { forbiddenMessage } from "./guards.server.ts";
 import { DomainError } from "./models/errors.ts";
 import { hasRole, type Role } from "./roles.ts";
-
-/** What an action answers when it does not redirect: which form it was, and the field messages if it failed. */
-export type ActionResult =
-  | { ok: true; intent: string; message?: string; subject?: string }
-  | { ok: false; intent: string; errors: FieldErrors; subject?: string };
 
 /** A 400 (or other) answer with field messages for the form named by `intent`. */
 export function invalid(intent: string, errors: FieldErrors, status = 400, subject?: string) {

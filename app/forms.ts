@@ -64,6 +64,18 @@ export function fieldErrors(error: z.ZodError): FieldErrors {
   return out;
 }
 
+/** What an action answers when it does not redirect: which form it was, and the field messages if it failed. */
+export type ActionResult =
+  | { ok: true; intent: string; message?: string; subject?: string }
+  | { ok: false; intent: string; errors: FieldErrors; subject?: string };
+
+/** The field messages an action sent back for the form `intent` (and, when given, the row `subject`), if any. */
+export function errorsFor(actionData: ActionResult | undefined, intent: string, subject?: string): FieldErrors | undefined {
+  if (!actionData || actionData.ok || actionData.intent !== intent) return undefined;
+  if (subject !== undefined && actionData.subject !== subject) return undefined;
+  return actionData.errors;
+}
+
 /** Parses a submitted form with a schema: the data, or the field messages to show. */
 export function parseForm<S extends z.ZodType>(
   schema: S,

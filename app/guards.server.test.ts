@@ -78,14 +78,15 @@ describe("role guards", () => {
     for (const who of roles)
       for (const needed of roles) {
         const request = await requestAs(w.people[who]);
+        // Started one at a time: a refusal that settled before its turn would be an unhandled rejection.
         const checks = [
-          guards.requireTeamRole(request, w.team.id, needed),
-          guards.requireProjectRole(request, w.project.id, needed),
-          guards.requireEffectRole(request, w.effect.id, needed),
+          () => guards.requireTeamRole(request, w.team.id, needed),
+          () => guards.requireProjectRole(request, w.project.id, needed),
+          () => guards.requireEffectRole(request, w.effect.id, needed),
         ];
         for (const check of checks) {
-          if (rank[who] >= rank[needed]) expect((await check).role).toBe(who);
-          else expect(await thrown(check)).toMatchObject({ status: 403 });
+          if (rank[who] >= rank[needed]) expect((await check()).role).toBe(who);
+          else expect(await thrown(check())).toMatchObject({ status: 403 });
         }
       }
   });

@@ -1,18 +1,11 @@
 import { qNotation } from "../effects/display.ts";
-import { EmptyState, TABLE, TCELL, THEAD, TROW } from "./ui.tsx";
+import type { ProfileSettings } from "../effects/settings.ts";
+import { ColumnHeader, EmptyState, TABLE, TCELL, THEAD, TROW } from "./ui.tsx";
 
-export interface ProfileView {
+export interface ProfileView extends ProfileSettings {
   id: string;
   name: string;
   description: string;
-  canvasWidth: number;
-  canvasHeight: number;
-  fixedPointBits: number;
-  fixedPointFraction: number;
-  rounding: string;
-  halfTurn: string;
-  edges: string;
-  columnGroup: number;
   dialects: string[];
   labelPrefix: string;
   effectCount: number;
@@ -25,15 +18,15 @@ export function ProfilesTable({ profiles, emptyHint, countLabel = "Effects" }: {
       <table className={TABLE} data-testid="profiles-table">
         <thead className={THEAD}>
           <tr>
-            <th scope="col" className="px-3 py-2 text-left font-medium">Profile</th>
-            <th scope="col" className="px-3 py-2 text-left font-medium">Canvas</th>
-            <th scope="col" className="px-3 py-2 text-left font-medium">Fixed point</th>
-            <th scope="col" className="px-3 py-2 text-left font-medium">Rounding</th>
-            <th scope="col" className="px-3 py-2 text-left font-medium">Half-turn</th>
-            <th scope="col" className="px-3 py-2 text-left font-medium">Edges</th>
-            <th scope="col" className="px-3 py-2 text-right font-medium">Column group</th>
-            <th scope="col" className="px-3 py-2 text-left font-medium">Export</th>
-            <th scope="col" className="px-3 py-2 text-right font-medium">{countLabel}</th>
+            <ColumnHeader label="Profile" />
+            <ColumnHeader label="Canvas" />
+            <ColumnHeader label="Fixed point" />
+            <ColumnHeader label="Rounding" />
+            <ColumnHeader label="Half-turn" />
+            <ColumnHeader label="Edges" />
+            <ColumnHeader label="Column group" align="right" />
+            <ColumnHeader label="Export" />
+            <ColumnHeader label={countLabel} align="right" />
           </tr>
         </thead>
         <tbody>

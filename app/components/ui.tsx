@@ -243,6 +243,37 @@ export function PageTitle({ title, meta, actions }: { title: ReactNode; meta?: R
   );
 }
 
+/** A label followed by a count in figures, say "Members (3)". */
+export function Counted({ label, count }: { label: ReactNode; count: number }) {
+  return (
+    <>
+      {label} (<span className="num">{count}</span>)
+    </>
+  );
+}
+
+function headerClass(align: "left" | "right"): string {
+  return cx("px-3 py-2 font-medium", align === "right" ? "text-right" : "text-left");
+}
+
+/** A plain column header; right-align the ones over figures. */
+export function ColumnHeader({ label, align = "left" }: { label: ReactNode; align?: "left" | "right" }) {
+  return (
+    <th scope="col" className={headerClass(align)}>
+      {label}
+    </th>
+  );
+}
+
+/** The header over a column of row buttons: named for screen readers, blank on screen. */
+export function ActionsHeader() {
+  return (
+    <th scope="col" className="px-3 py-2">
+      <span className="sr-only">Actions</span>
+    </th>
+  );
+}
+
 /** A header cell that sorts a table by following a link (works without JavaScript). */
 export function SortHeader({
   label,
@@ -263,7 +294,7 @@ export function SortHeader({
     <th
       scope="col"
       aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : "none"}
-      className={cx("px-3 py-2 font-medium", align === "right" ? "text-right" : "text-left")}
+      className={headerClass(align)}
     >
       <Link
         to={`?sort=${sort}&dir=${next}`}

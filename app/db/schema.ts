@@ -37,11 +37,34 @@ const timestamps = {
     .$onUpdate(() => new Date()),
 };
 
+// Columns several tables repeat. Each is a function, so every table gets a builder of its own; the
+// `references` callbacks run only when Drizzle resolves foreign keys, after every table below exists.
+
+/** A random UUID primary key. */
+const uuidKey = () => uuid().primaryKey().defaultRandom();
+/** The team a row belongs to; the row goes with the team. */
+const teamRef = () =>
+  uuid()
+    .notNull()
+    .references(() => teams.id, { onDelete: "cascade" });
+/** The project a row belongs to; the row goes with the project. */
+const projectRef = () =>
+  uuid()
+    .notNull()
+    .references(() => projects.id, { onDelete: "cascade" });
+/** The person a row belongs to; the row goes with the account. */
+const userRef = () =>
+  uuid()
+    .notNull()
+    .references(() => users.id, { onDelete: "cascade" });
+/** Who did something; the row stays (with no one named) when that account goes. */
+const actorRef = () => uuid().references(() => users.id, { onDelete: "set null" });
+
 // ---------------------------------------------------------------------------------------------
 // Tables
 
 export const users = pgTable("users", {
-  id: uuid().primaryKey().defaultRandom(),
+  id: uuidKey(),
   /** The account id at the sign-in provider (GitHub's numeric user id). */
   githubId: bigint({ mode: "number" }).notNull().unique("users_github_id_key"),
   login: text().notNull(),
@@ -65,7 +88,7 @@ export const sessions = pgTable(
 );
 
 export const teams = pgTable("teams", {
-  id: uuid().primaryKey().defaultRandom(),
+  id: uuidKey(),
   name: text().notNull(),
   /** A stable, URL-safe handle chosen at creation. */
   slug: text().notNull().unique("teams_slug_key"),
@@ -75,12 +98,8 @@ export const teams = pgTable("teams", {
 export const memberships = pgTable(
   "memberships",
   {
-    teamId: uuid()
-      .notNull()
-      .references(() => teams.id, { onDelete: "cascade" }),
-    userId: uuid()
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    teamId: teamRef(),
+    userId: userRef(),
     role: roleEnum().notNull(),
     ...timestamps,
   },
@@ -90,16 +109,14 @@ export const memberships = pgTable(
 export const invitations = pgTable(
   "invitations",
   {
-    id: uuid().primaryKey().defaultRandom(),
-    teamId: uuid()
-      .notNull()
-      .references(() => teams.id, { onDelete: "cascade" }),
+    id: uuidKey(),
+    teamId: teamRef(),
     email: text().notNull(),
     role: roleEnum().notNull(),
     /** SHA-256 of the token mailed to the invitee; the token itself is never stored. */
     tokenHash: text().notNull().unique("invitations_token_hash_key"),
     expiresAt: timestamp({ withTimezone: true }).notNull(),
-    invitedBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    invitedBy: actorRef(),
     acceptedAt: timestamp({ withTimezone: true }),
     ...timestamps,
   },
@@ -109,15 +126,13 @@ export const invitations = pgTable(
 export const projects = pgTable(
   "projects",
   {
-    id: uuid().primaryKey().defaultRandom(),
-    teamId: uuid()
-      .notNull()
-      .references(() => teams.id, { onDelete: "cascade" }),
+    id: uuidKey(),
+    teamId: teamRef(),
     name: text().notNull(),
     description: text().notNull().default(""),
     /** Set when archived (a soft delete); cleared by restore. */
     archivedAt: timestamp({ withTimezone: true }),
-    createdBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    createdBy: actorRef(),
     ...timestamps,
   },
   (t) => [
@@ -132,10 +147,8 @@ export const projects = pgTable(
 export const targetProfiles = pgTable(
   "target_profiles",
   {
-    id: uuid().primaryKey().defaultRandom(),
-    teamId: uuid()
-      .notNull()
-      .references(() => teams.id, { onDelete: "cascade" }),
+    id: uuidKey(),
+    teamId: teamRef(),
     name: text().notNull(),
     description: text().notNull().default(""),
     canvasWidth: integer().notNull(),
@@ -163,10 +176,8 @@ export const targetProfiles = pgTable(
 export const sprites = pgTable(
   "sprites",
   {
-    id: uuid().primaryKey().defaultRandom(),
-    projectId: uuid()
-      .notNull()
-      .references(() => projects.id, { onDelete: "cascade" }),
+    id: uuidKey(),
+    projectId: projectRef(),
     name: text().notNull(),
     /** The indexed PNG file, as uploaded. */
     png: bytea().notNull(),
@@ -174,7 +185,7 @@ export const sprites = pgTable(
     height: integer().notNull(),
     /** Palette entries as [red, green, blue, alpha], 0–255 each. */
     palette: jsonb().$type<[number, number, number, number][]>().notNull(),
-    uploadedBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    uploadedBy: actorRef(),
     ...timestamps,
   },
   (t) => [index().on(t.projectId)],
@@ -183,10 +194,8 @@ export const sprites = pgTable(
 export const effects = pgTable(
   "effects",
   {
-    id: uuid().primaryKey().defaultRandom(),
-    projectId: uuid()
-      .notNull()
-      .references(() => projects.id, { onDelete: "cascade" }),
+    id: uuidKey(),
+    projectId: projectRef(),
     name: text().notNull(),
     /** The effect document (skewsmith.effect/1), stored only after core's parseEffect accepted it. */
     document: jsonb().$type<EffectDocument>().notNull(),
@@ -196,8 +205,8 @@ export const effects = pgTable(
     spriteId: uuid().references(() => sprites.id, { onDelete: "set null" }),
     /** Set when deleted (soft, restorable for a grace period). */
     deletedAt: timestamp({ withTimezone: true }),
-    createdBy: uuid().references(() => users.id, { onDelete: "set null" }),
-    updatedBy: uuid().references(() => users.id, { onDelete: "set null" }),
+    createdBy: actorRef(),
+    updatedBy: actorRef(),
     ...timestamps,
   },
   (t) => [
@@ -212,10 +221,8 @@ export const effects = pgTable(
 export const apiTokens = pgTable(
   "api_tokens",
   {
-    id: uuid().primaryKey().defaultRandom(),
-    userId: uuid()
-      .notNull()
-      .references(() => users.id, { onDelete: "cascade" }),
+    id: uuidKey(),
+    userId: userRef(),
     name: text().notNull(),
     /** SHA-256 of the token; the token is shown once and never stored. */
     tokenHash: text().notNull().unique("api_tokens_token_hash_key"),
@@ -231,11 +238,9 @@ export const activity = pgTable(
   "activity",
   {
     id: bigint({ mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
-    teamId: uuid()
-      .notNull()
-      .references(() => teams.id, { onDelete: "cascade" }),
+    teamId: teamRef(),
     projectId: uuid().references(() => projects.id, { onDelete: "cascade" }),
-    userId: uuid().references(() => users.id, { onDelete: "set null" }),
+    userId: actorRef(),
     /** What happened, as a dotted verb such as "project.renamed". */
     action: text().notNull(),
     /** A short human-readable description. */

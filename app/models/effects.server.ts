@@ -1,11 +1,12 @@
 import { checkEffect, type Effect } from "@skewsmith/core";
 import { and, asc, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
-import { effects, projects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
+import { effects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
 import { newEffectDocument } from "../effects/settings.ts";
 import { NAME_MAX } from "../forms.ts";
 import { recordActivity } from "./activity.server.ts";
 import { DomainError, isUniqueViolation } from "./errors.ts";
+import { mustGetProject } from "./projects.server.ts";
 
 const NAME_TAKEN = (name: string) =>
   new DomainError(`The project already has an effect called “${name}”. Choose another name.`, { field: "name", status: 409 });
@@ -45,8 +46,7 @@ async function guardUnique<T>(name: string, work: () => Promise<T>): Promise<T> 
 }
 
 async function liveProject(db: Tx, projectId: string) {
-  const [project] = await db.select().from(projects).where(eq(projects.id, projectId));
-  if (!project) throw new DomainError("That project does not exist.", { status: 404 });
+  const project = await mustGetProject(db, projectId);
   if (project.archivedAt) throw new DomainError("The project is archived; restore it before changing its effects.", { status: 409 });
   return project;
 }
@@ -121,6 +121,14 @@ async function mustGet(db: Tx, effectId: string): Promise<EffectRow> {
   return effect;
 }
 
+/** An effect that may change, with its project: it exists, is not deleted, and its project is not archived. */
+async function changeableEffect(db: Tx, effectId: string) {
+  const effect = await mustGet(db, effectId);
+  if (effect.deletedAt) throw new DomainError("That effect was deleted; restore it first.", { status: 409 });
+  const project = await liveProject(db, effect.projectId);
+  return { effect, project };
+}
+
 /** The first free "<name> copy", "<name> copy 2", … in the project. */
 async function copyName(db: Tx, projectId: string, name: string): Promise<string> {
   const rows = await db
@@ -137,9 +145,7 @@ async function copyName(db: Tx, projectId: string, name: string): Promise<string
 /** Copies an effect (document, target profile and sprite) under a new name in the same project. */
 export async function duplicateEffect(db: Tx, input: { effectId: string; actorId: string }): Promise<EffectRow> {
   return db.transaction(async (tx) => {
-    const source = await mustGet(tx, input.effectId);
-    if (source.deletedAt) throw new DomainError("That effect was deleted; restore it first.", { status: 409 });
-    const project = await liveProject(tx, source.projectId);
+    const { effect: source, project } = await changeableEffect(tx, input.effectId);
     const name = await copyName(tx, project.id, source.name);
     const [copy] = await tx
       .insert(effects)
@@ -167,9 +173,7 @@ export async function duplicateEffect(db: Tx, input: { effectId: string; actorId
 export async function renameEffect(db: Tx, input: { effectId: string; name: string; actorId: string }): Promise<EffectRow> {
   return guardUnique(input.name, () =>
     db.transaction(async (tx) => {
-      const before = await mustGet(tx, input.effectId);
-      if (before.deletedAt) throw new DomainError("That effect was deleted; restore it first.", { status: 409 });
-      const project = await liveProject(tx, before.projectId);
+      const { effect: before, project } = await changeableEffect(tx, input.effectId);
       if (before.name === input.name) return before;
       await assertNameFree(tx, project.id, input.name, before.id);
       const [after] = await tx
@@ -242,9 +246,7 @@ export async function saveEffectDocument(
 ): Promise<EffectRow> {
   const document = validDocument(input.document);
   return db.transaction(async (tx) => {
-    const effect = await mustGet(tx, input.effectId);
-    if (effect.deletedAt) throw new DomainError("That effect was deleted; restore it first.", { status: 409 });
-    const project = await liveProject(tx, effect.projectId);
+    const { effect, project } = await changeableEffect(tx, input.effectId);
     const [saved] = await tx
       .update(effects)
       .set({ document, version: sql`${effects.version} + 1`, updatedBy: input.actorId })

@@ -63,7 +63,8 @@ export async function getProject(db: Tx, projectId: string): Promise<Project | n
   return project ?? null;
 }
 
-async function mustGet(db: Tx, projectId: string): Promise<Project> {
+/** The project, or a 404 DomainError when there is none. */
+export async function mustGetProject(db: Tx, projectId: string): Promise<Project> {
   const project = await getProject(db, projectId);
   if (!project) throw new DomainError("That project does not exist.", { status: 404 });
   return project;
@@ -76,7 +77,7 @@ export async function updateProject(
 ): Promise<Project> {
   return guardUnique(input.name, () =>
     db.transaction(async (tx) => {
-      const before = await mustGet(tx, input.projectId);
+      const before = await mustGetProject(tx, input.projectId);
       if (before.archivedAt) throw new DomainError("Restore the project before changing it.", { status: 409 });
       if (before.name === input.name && before.description === input.description) return before;
       await assertNameFree(tx, before.teamId, input.name, before.id);
@@ -105,7 +106,7 @@ export async function updateProject(
 /** Archives a project: it leaves the team's list but keeps everything, and can be restored. */
 export async function archiveProject(db: Tx, input: { projectId: string; actorId: string }): Promise<void> {
   await db.transaction(async (tx) => {
-    const project = await mustGet(tx, input.projectId);
+    const project = await mustGetProject(tx, input.projectId);
     if (project.archivedAt) return;
     await tx.update(projects).set({ archivedAt: new Date() }).where(eq(projects.id, project.id));
     await recordActivity(tx, {
@@ -120,7 +121,7 @@ export async function archiveProject(db: Tx, input: { projectId: string; actorId
 
 /** Brings an archived project back; refused while another live project has its name. */
 export async function restoreProject(db: Tx, input: { projectId: string; actorId: string }): Promise<void> {
-  const project = await mustGet(db, input.projectId);
+  const project = await mustGetProject(db, input.projectId);
   await guardUnique(project.name, () =>
     db.transaction(async (tx) => {
       if (!project.archivedAt) return;
@@ -162,6 +163,17 @@ const lastChangedAt = sql<Date>`greatest("projects"."updated_at", (select max(e.
   (v: string | Date) => new Date(v),
 );
 
+/** The columns of a ProjectListItem, for every query that lists projects. */
+const listColumns = {
+  id: projects.id,
+  teamId: projects.teamId,
+  name: projects.name,
+  description: projects.description,
+  effectCount,
+  lastChangedAt,
+  archivedAt: projects.archivedAt,
+};
+
 function orderFor(sort: ProjectSort, dir: SortDirection): SQL[] {
   const by = dir === "desc" ? desc : asc;
   const name = sql`lower(${projects.name})`;
@@ -182,15 +194,7 @@ export async function listProjects(
   options: { archived?: boolean; sort?: ProjectSort; dir?: SortDirection } = {},
 ): Promise<ProjectListItem[]> {
   return db
-    .select({
-      id: projects.id,
-      teamId: projects.teamId,
-      name: projects.name,
-      description: projects.description,
-      effectCount,
-      lastChangedAt,
-      archivedAt: projects.archivedAt,
-    })
+    .select(listColumns)
     .from(projects)
     .where(and(eq(projects.teamId, teamId), options.archived ? isNotNull(projects.archivedAt) : isNull(projects.archivedAt)))
     .orderBy(...orderFor(options.sort ?? "name", options.dir ?? "asc"));
@@ -205,13 +209,7 @@ export interface ProjectOfUser extends ProjectListItem {
 export async function listProjectsForUser(db: Tx, userId: string): Promise<ProjectOfUser[]> {
   return db
     .select({
-      id: projects.id,
-      teamId: projects.teamId,
-      name: projects.name,
-      description: projects.description,
-      effectCount,
-      lastChangedAt,
-      archivedAt: projects.archivedAt,
+      ...listColumns,
       teamName: teams.name,
       role: memberships.role,
     })

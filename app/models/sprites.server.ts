@@ -1,9 +1,10 @@
 import { and, asc, eq, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
-import { projects, sprites, users, type Sprite } from "../db/schema.ts";
+import { sprites, users, type Sprite } from "../db/schema.ts";
 import { decodeIndexedPng } from "../sprites/png.ts";
 import { recordActivity } from "./activity.server.ts";
 import { DomainError } from "./errors.ts";
+import { mustGetProject } from "./projects.server.ts";
 
 /** Largest sprite file accepted, in bytes. */
 export const SPRITE_MAX_BYTES = 4 * 1024 * 1024;
@@ -22,8 +23,7 @@ export async function createSprite(
     throw new DomainError(`This file cannot be used as a sprite: ${(error as Error).message}.`, { field: "png" });
   }
   return db.transaction(async (tx) => {
-    const [project] = await tx.select().from(projects).where(eq(projects.id, input.projectId));
-    if (!project) throw new DomainError("That project does not exist.", { status: 404 });
+    const project = await mustGetProject(tx, input.projectId);
     const [sprite] = await tx
       .insert(sprites)
       .values({

@@ -2,6 +2,7 @@ import { compileShifts } from "@skewsmith/core";
 import type { ReactNode } from "react";
 import { Link } from "react-router";
 import type { Route } from "./+types/effect";
+import { SpriteFacts, SpriteImage } from "../components/Sprite.tsx";
 import { buttonClass, Crumbs, Notice, PageTitle, Panel, RoleBadge, Timestamp } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
 import { describeAngles, qNotation } from "../effects/display.ts";
@@ -160,17 +161,13 @@ export default function EffectPage({ loaderData }: Route.ComponentProps) {
           <Panel title="Sprite" id="sprite">
             {sprite ? (
               <figure className="flex items-center gap-4">
-                <img
-                  src={`/sprites/${sprite.id}/image.png`}
-                  alt={`Sprite ${sprite.name}`}
-                  className="pixelated max-h-40 max-w-56 rounded border border-ink-700 bg-[repeating-conic-gradient(#1d252d_0_25%,#12181e_0_50%)] bg-[length:8px_8px]"
+                <SpriteImage
+                  sprite={sprite}
+                  className="max-h-40 max-w-56"
                   style={{ width: Math.min(224, sprite.width * Math.max(1, Math.floor(160 / sprite.height))) }}
                 />
                 <figcaption className="text-sm">
-                  <div className="text-ink-100">{sprite.name}</div>
-                  <div className="num text-xs text-ink-400">
-                    {sprite.width} × {sprite.height} px · {sprite.colours} colours
-                  </div>
+                  <SpriteFacts sprite={sprite} />
                 </figcaption>
               </figure>
             ) : (

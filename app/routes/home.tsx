@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/home";
 import { CreateTeamForm } from "../components/CreateTeamForm.tsx";
-import { EmptyState, PageTitle, Panel, RoleBadge, TABLE, TCELL, THEAD, TROW, Timestamp } from "../components/ui.tsx";
+import { ColumnHeader, EmptyState, PageTitle, Panel, RoleBadge, TABLE, TCELL, THEAD, TROW, Timestamp } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
 import { requireUser } from "../guards.server.ts";
 import { listProjectsForUser } from "../models/projects.server.ts";
@@ -61,11 +61,11 @@ export default function Home({ loaderData }: Route.ComponentProps) {
               <table className={TABLE}>
                 <thead className={THEAD}>
                   <tr>
-                    <th scope="col" className="px-3 py-2 text-left font-medium">Project</th>
-                    <th scope="col" className="px-3 py-2 text-left font-medium">Team</th>
-                    <th scope="col" className="px-3 py-2 text-left font-medium">Your role</th>
-                    <th scope="col" className="px-3 py-2 text-right font-medium">Effects</th>
-                    <th scope="col" className="px-3 py-2 text-left font-medium">Last change</th>
+                    <ColumnHeader label="Project" />
+                    <ColumnHeader label="Team" />
+                    <ColumnHeader label="Your role" />
+                    <ColumnHeader label="Effects" align="right" />
+                    <ColumnHeader label="Last change" />
                   </tr>
                 </thead>
                 <tbody>

@@ -1,11 +1,18 @@
+import { useEffect, useRef } from "react";
 import { Form, Link, useFetcher } from "react-router";
 import type { Route } from "./+types/project";
-import { attempt, invalid, unknownIntent, type ActionResult } from "../actions.server.ts";
+import { attempt, invalid, unknownIntent } from "../actions.server.ts";
 import { ActivityList } from "../components/ActivityList.tsx";
-import { useFormCheck } from "../components/useFormCheck.ts";
+import { InlineCreateForm } from "../components/InlineCreateForm.tsx";
 import { ProfilesTable } from "../components/ProfilesTable.tsx";
+import { RestoreList } from "../components/RestoreList.tsx";
+import { SpriteFacts, SpriteImage } from "../components/Sprite.tsx";
+import { useFormCheck } from "../components/useFormCheck.ts";
 import {
+  ActionsHeader,
   Button,
+  ColumnHeader,
+  Counted,
   Crumbs,
   EmptyState,
   Field,
@@ -25,7 +32,17 @@ import {
 } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
 import { describeAngles, NEW_EFFECT_CANVAS, qNotation } from "../effects/display.ts";
-import { createEffectForm, DESCRIPTION_MAX, effectForm, NAME_MAX, parseForm, projectForm, renameEffectForm } from "../forms.ts";
+import {
+  createEffectForm,
+  DESCRIPTION_MAX,
+  effectForm,
+  errorsFor,
+  NAME_MAX,
+  parseForm,
+  projectForm,
+  renameEffectForm,
+  type ActionResult,
+} from "../forms.ts";
 import { requireProjectRole } from "../guards.server.ts";
 import { listActivity } from "../models/activity.server.ts";
 import {
@@ -139,6 +156,20 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
   const errors = renameCheck.errors ?? serverErrors;
   const renaming = renameCheck.errors !== undefined || (serverErrors !== undefined && fetcher.data?.intent === "rename-effect");
   const busy = fetcher.state !== "idle";
+  // Close the rename box once a rename has gone through; it stays open to show what was wrong otherwise.
+  const renameBox = useRef<HTMLDetailsElement>(null);
+  const renamed = fetcher.state === "idle" && fetcher.data?.ok === true && fetcher.data.intent === "rename-effect";
+  useEffect(() => {
+    if (renamed && renameBox.current) renameBox.current.open = false;
+  }, [renamed, fetcher.data]);
+  const change = (intent: string, label: string, variant: "quiet" | "danger") => (
+    <fetcher.Form method="post">
+      <input type="hidden" name="effectId" value={effect.id} />
+      <Button size="sm" variant={variant} name="intent" value={intent} disabled={busy}>
+        {label}
+      </Button>
+    </fetcher.Form>
+  );
   return (
     <tr className={TROW} data-testid={`effect-row-${effect.name}`}>
       <td className={TCELL}>
@@ -159,13 +190,13 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
       {canEdit ? (
         <td className={`${TCELL} text-right`}>
           <div className="flex items-center justify-end gap-1">
-            <details className="relative" open={renaming || undefined}>
+            <details ref={renameBox} open={renaming || undefined}>
               <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-xs text-ink-300 hover:bg-ink-800 hover:text-ink-100">Rename</summary>
               <fetcher.Form
                 method="post"
                 onSubmit={renameCheck.onSubmit}
                 noValidate
-                className="absolute right-0 z-10 mt-1 flex w-72 flex-col gap-2 rounded-md border border-ink-600 bg-ink-850 p-3 text-left shadow-xl"
+                className="mt-1 flex w-60 flex-col gap-2 rounded-md border border-ink-600 bg-ink-850 p-3 text-left"
               >
                 <input type="hidden" name="effectId" value={effect.id} />
                 <Field label="New name" name={`rename-${effect.id}`} error={errors?.name}>
@@ -176,18 +207,8 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
                 </Button>
               </fetcher.Form>
             </details>
-            <fetcher.Form method="post">
-              <input type="hidden" name="effectId" value={effect.id} />
-              <Button size="sm" variant="quiet" name="intent" value="duplicate-effect" disabled={busy}>
-                Duplicate
-              </Button>
-            </fetcher.Form>
-            <fetcher.Form method="post">
-              <input type="hidden" name="effectId" value={effect.id} />
-              <Button size="sm" variant="danger" name="intent" value="delete-effect" disabled={busy}>
-                Delete
-              </Button>
-            </fetcher.Form>
+            {change("duplicate-effect", "Duplicate", "quiet")}
+            {change("delete-effect", "Delete", "danger")}
           </div>
           {errors && !renaming ? <p className="mt-1 text-xs text-alert-300">{Object.values(errors)[0]}</p> : null}
         </td>
@@ -200,13 +221,12 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
   const { team, project, role, effects, deleted, profiles, sprites, activity } = loaderData;
   const canEdit = hasRole(role, "editor");
   const archived = project.archivedAt !== null;
-  const errorsOf = (intent: string) => (actionData && !actionData.ok && actionData.intent === intent ? actionData.errors : undefined);
   const detailsCheck = useFormCheck(projectForm);
   const createCheck = useFormCheck(createEffectForm);
-  const detailsErrors = detailsCheck.errors ?? errorsOf("update-project");
-  const createErrors = createCheck.errors ?? errorsOf("create-effect");
+  const detailsErrors = detailsCheck.errors ?? errorsFor(actionData, "update-project");
+  const createErrors = createCheck.errors ?? errorsFor(actionData, "create-effect");
   const notice = actionData?.ok ? actionData.message : undefined;
-  const restoreErrors = errorsOf("restore-project") ?? errorsOf("restore-effect");
+  const restoreErrors = errorsFor(actionData, "restore-project") ?? errorsFor(actionData, "restore-effect");
   return (
     <div className="flex flex-col gap-8">
       <div>
@@ -239,7 +259,7 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
             </Notice>
           ) : null}
           {notice ? <Notice>{notice}</Notice> : null}
-          <FormError>{restoreErrors?.form ?? errorsOf("archive-project")?.form}</FormError>
+          <FormError>{restoreErrors?.form ?? errorsFor(actionData, "archive-project")?.form}</FormError>
         </div>
         {canEdit && !archived ? (
           <details className="mt-4 max-w-3xl" open={detailsErrors !== undefined}>
@@ -262,14 +282,7 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
         ) : null}
       </div>
 
-      <Panel
-        title={
-          <>
-            Effects (<span className="num">{effects.length}</span>)
-          </>
-        }
-        id="effects"
-      >
+      <Panel title={<Counted label="Effects" count={effects.length} />} id="effects">
         {effects.length === 0 ? (
           <EmptyState title="No effects in this project yet">
             {canEdit && !archived
@@ -281,18 +294,14 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
             <table className={TABLE} data-testid="effects-table">
               <thead className={THEAD}>
                 <tr>
-                  <th scope="col" className="px-3 py-2 text-left font-medium">Effect</th>
-                  <th scope="col" className="px-3 py-2 text-left font-medium">Canvas</th>
-                  <th scope="col" className="px-3 py-2 text-left font-medium">Fixed point</th>
-                  <th scope="col" className="px-3 py-2 text-left font-medium">Target profile</th>
-                  <th scope="col" className="px-3 py-2 text-left font-medium">Sprite</th>
-                  <th scope="col" className="px-3 py-2 text-right font-medium">Version</th>
-                  <th scope="col" className="px-3 py-2 text-left font-medium">Last change</th>
-                  {canEdit && !archived ? (
-                    <th scope="col" className="px-3 py-2">
-                      <span className="sr-only">Actions</span>
-                    </th>
-                  ) : null}
+                  <ColumnHeader label="Effect" />
+                  <ColumnHeader label="Canvas" />
+                  <ColumnHeader label="Fixed point" />
+                  <ColumnHeader label="Target profile" />
+                  <ColumnHeader label="Sprite" />
+                  <ColumnHeader label="Version" align="right" />
+                  <ColumnHeader label="Last change" />
+                  {canEdit && !archived ? <ActionsHeader /> : null}
                 </tr>
               </thead>
               <tbody>
@@ -305,12 +314,13 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
         )}
 
         {canEdit && !archived ? (
-          <Form
-            method="post"
-            className="mt-5 grid gap-3 border-t border-ink-800 pt-5 md:grid-cols-[2fr_2fr_auto] md:items-start"
-            aria-label="New effect"
+          <InlineCreateForm
+            label="New effect"
+            columns="md:grid-cols-[2fr_2fr_auto]"
+            intent="create-effect"
+            submit="Create effect"
             onSubmit={createCheck.onSubmit}
-            noValidate
+            formError={createErrors?.form}
           >
             <Field label="New effect name" name="name" error={createErrors?.name}>
               <TextInput name="name" maxLength={NAME_MAX} required placeholder="Say, Lighthouse beam" error={createErrors?.name} />
@@ -325,44 +335,17 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
                 ))}
               </Select>
             </Field>
-            <div className="md:pt-5">
-              <Button variant="primary" name="intent" value="create-effect">
-                Create effect
-              </Button>
-            </div>
-            <div className="md:col-span-3">
-              <FormError>{createErrors?.form}</FormError>
-            </div>
-          </Form>
+          </InlineCreateForm>
         ) : null}
 
-        {deleted.length > 0 ? (
-          <details className="mt-5 border-t border-ink-800 pt-4">
-            <summary className="cursor-pointer text-sm text-ink-400 hover:text-ink-200">
-              Recently deleted (<span className="num">{deleted.length}</span>)
-            </summary>
-            <ul className="mt-3 flex flex-col gap-2">
-              {deleted.map((e) => (
-                <li key={e.id} className="flex flex-wrap items-center justify-between gap-3 rounded-md bg-ink-850 px-3 py-2 text-sm">
-                  <span>
-                    <span className="text-ink-200">{e.name}</span>{" "}
-                    <span className="text-ink-500">
-                      deleted <Timestamp value={e.deletedAt} />
-                    </span>
-                  </span>
-                  {canEdit && !archived ? (
-                    <Form method="post">
-                      <input type="hidden" name="effectId" value={e.id} />
-                      <Button size="sm" name="intent" value="restore-effect">
-                        Restore
-                      </Button>
-                    </Form>
-                  ) : null}
-                </li>
-              ))}
-            </ul>
-          </details>
-        ) : null}
+        <RestoreList
+          title="Recently deleted"
+          verb="deleted"
+          items={deleted.map((e) => ({ id: e.id, name: e.name, at: e.deletedAt }))}
+          idField="effectId"
+          intent="restore-effect"
+          canRestore={canEdit && !archived}
+        />
       </Panel>
 
       <Panel title="Target profiles" id="profiles">
@@ -379,18 +362,9 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
             <ul className="flex flex-col gap-3">
               {sprites.map((s) => (
                 <li key={s.id} className="flex items-center gap-3">
-                  <img
-                    src={`/sprites/${s.id}/image.png`}
-                    alt={`Sprite ${s.name}`}
-                    width={48}
-                    height={48}
-                    className="pixelated h-12 w-12 rounded border border-ink-700 bg-[repeating-conic-gradient(#1d252d_0_25%,#12181e_0_50%)] bg-[length:8px_8px] object-contain"
-                  />
+                  <SpriteImage sprite={s} width={48} height={48} className="h-12 w-12 object-contain" />
                   <div className="text-sm">
-                    <div className="text-ink-100">{s.name}</div>
-                    <div className="num text-xs text-ink-400">
-                      {s.width} × {s.height} px · {s.colours} colours
-                    </div>
+                    <SpriteFacts sprite={s} />
                   </div>
                 </li>
               ))}

@@ -1,12 +1,17 @@
 import { useEffect, useState } from "react";
 import { Form, Link, redirect, useFetcher } from "react-router";
 import type { Route } from "./+types/team";
-import { attempt, invalid, requireAtLeast, unknownIntent, type ActionResult } from "../actions.server.ts";
+import { attempt, invalid, requireAtLeast, unknownIntent } from "../actions.server.ts";
 import { ActivityList } from "../components/ActivityList.tsx";
-import { useFormCheck } from "../components/useFormCheck.ts";
+import { InlineCreateForm } from "../components/InlineCreateForm.tsx";
 import { ProfilesTable } from "../components/ProfilesTable.tsx";
+import { RestoreList } from "../components/RestoreList.tsx";
+import { useFormCheck } from "../components/useFormCheck.ts";
 import {
+  ActionsHeader,
   Button,
+  ColumnHeader,
+  Counted,
   Crumbs,
   Notice,
   EmptyState,
@@ -26,7 +31,17 @@ import {
   Timestamp,
 } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
-import { changeRoleForm, DESCRIPTION_MAX, memberForm, NAME_MAX, parseForm, projectForm, renameTeamForm } from "../forms.ts";
+import {
+  changeRoleForm,
+  DESCRIPTION_MAX,
+  errorsFor,
+  memberForm,
+  NAME_MAX,
+  parseForm,
+  projectForm,
+  renameTeamForm,
+  type ActionResult,
+} from "../forms.ts";
 import { requireTeamRole } from "../guards.server.ts";
 import { listActivity } from "../models/activity.server.ts";
 import { createProject, listProjects, PROJECT_SORTS, restoreProject, type ProjectSort } from "../models/projects.server.ts";
@@ -34,7 +49,7 @@ import { createTargetProfile, listTargetProfiles } from "../models/targetProfile
 import { EDGES, HALF_TURNS, LIMITS, ROUNDINGS } from "@skewsmith/core";
 import { targetProfileInput } from "../effects/settings.ts";
 import { changeRole, listMembers, removeMember, renameTeam } from "../models/teams.server.ts";
-import { hasRole, ROLE_SUMMARY, ROLES, type Role } from "../roles.ts";
+import { hasRole, ROLE_SUMMARY, ROLES } from "../roles.ts";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.team.name ?? "Team"} · Skewsmith` }];
 
@@ -113,12 +128,6 @@ export async function action({ request, params }: Route.ActionArgs) {
     default:
       return unknownIntent(intent);
   }
-}
-
-function errorsFor(actionData: ActionResult | undefined, intent: string, subject?: string) {
-  if (!actionData || actionData.ok || actionData.intent !== intent) return undefined;
-  if (subject !== undefined && actionData.subject !== subject) return undefined;
-  return actionData.errors;
 }
 
 function MemberRow({ member, me, canManage }: { member: Route.ComponentProps["loaderData"]["members"][number]; me: string; canManage: boolean }) {
@@ -315,12 +324,13 @@ export default function TeamPage({ loaderData, actionData }: Route.ComponentProp
         )}
 
         {canEdit ? (
-          <Form
-            method="post"
-            className="mt-5 grid gap-3 border-t border-ink-800 pt-5 md:grid-cols-[1fr_2fr_auto] md:items-start"
-            aria-label="New project"
+          <InlineCreateForm
+            label="New project"
+            columns="md:grid-cols-[1fr_2fr_auto]"
+            intent="create-project"
+            submit="Create project"
             onSubmit={createCheck.onSubmit}
-            noValidate
+            formError={createErrors?.form}
           >
             <Field label="New project name" name="name" error={createErrors?.name}>
               <TextInput name="name" maxLength={NAME_MAX} required placeholder="Say, Harbour level" error={createErrors?.name} />
@@ -328,70 +338,33 @@ export default function TeamPage({ loaderData, actionData }: Route.ComponentProp
             <Field label="Description (optional)" name="description" error={createErrors?.description}>
               <TextArea name="description" rows={1} maxLength={DESCRIPTION_MAX} placeholder="What the project is for" error={createErrors?.description} />
             </Field>
-            <div className="md:pt-5">
-              <Button variant="primary" name="intent" value="create-project">
-                Create project
-              </Button>
-            </div>
-            <div className="md:col-span-3">
-              <FormError>{createErrors?.form}</FormError>
-            </div>
-          </Form>
+          </InlineCreateForm>
         ) : null}
 
-        {archived.length > 0 ? (
-          <details className="mt-5 border-t border-ink-800 pt-4" open={errorsFor(actionData, "restore-project") !== undefined}>
-            <summary className="cursor-pointer text-sm text-ink-400 hover:text-ink-200">
-              Archived projects (<span className="num">{archived.length}</span>)
-            </summary>
-            <ul className="mt-3 flex flex-col gap-2">
-              {archived.map((p) => {
-                const errors = errorsFor(actionData, "restore-project", p.id);
-                return (
-                  <li key={p.id} className="flex flex-wrap items-center justify-between gap-3 rounded-md bg-ink-850 px-3 py-2 text-sm">
-                    <span>
-                      <Link to={`/projects/${p.id}`} className="text-ink-200 hover:text-glass-300">
-                        {p.name}
-                      </Link>{" "}
-                      <span className="text-ink-500">
-                        archived <Timestamp value={p.archivedAt!} />
-                      </span>
-                    </span>
-                    {canEdit ? (
-                      <Form method="post">
-                        <input type="hidden" name="projectId" value={p.id} />
-                        <Button size="sm" name="intent" value="restore-project">
-                          Restore
-                        </Button>
-                      </Form>
-                    ) : null}
-                    {errors ? <p className="w-full text-xs text-alert-300">{Object.values(errors)[0]}</p> : null}
-                  </li>
-                );
-              })}
-            </ul>
-          </details>
-        ) : null}
+        <RestoreList
+          title="Archived projects"
+          verb="archived"
+          items={archived.map((p) => ({ id: p.id, name: p.name, at: p.archivedAt!, to: `/projects/${p.id}` }))}
+          idField="projectId"
+          intent="restore-project"
+          canRestore={canEdit}
+          open={errorsFor(actionData, "restore-project") !== undefined}
+          errorOf={(id) => {
+            const errors = errorsFor(actionData, "restore-project", id);
+            return errors ? Object.values(errors)[0] : undefined;
+          }}
+        />
       </Panel>
 
-      <Panel
-        title={
-          <>
-            Members (<span className="num">{members.length}</span>)
-          </>
-        }
-        id="members"
-      >
+      <Panel title={<Counted label="Members" count={members.length} />} id="members">
         <table className={TABLE} data-testid="members-table">
           <thead className={THEAD}>
             <tr>
-              <th scope="col" className="px-3 py-2 text-left font-medium">Member</th>
-              <th scope="col" className="px-3 py-2 text-left font-medium">E-mail</th>
-              <th scope="col" className="px-3 py-2 text-left font-medium">Role</th>
-              <th scope="col" className="px-3 py-2 text-left font-medium">Joined</th>
-              <th scope="col" className="px-3 py-2">
-                <span className="sr-only">Actions</span>
-              </th>
+              <ColumnHeader label="Member" />
+              <ColumnHeader label="E-mail" />
+              <ColumnHeader label="Role" />
+              <ColumnHeader label="Joined" />
+              <ActionsHeader />
             </tr>
           </thead>
           <tbody>

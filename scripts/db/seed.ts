@@ -10,9 +10,8 @@ import { pathToFileURL } from "node:url";
 import { createDb, type Db } from "../../app/db/client.server.ts";
 import { teams } from "../../app/db/schema.ts";
 import { compassRose, stormBackground } from "../../app/demo/art.ts";
-import { DEMO_PEOPLE, DEMO_TEAM, demoPerson } from "../../app/demo/people.ts";
-import { upsertGitHubUser } from "../../app/models/users.server.ts";
-import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam } from "../../tests/factories.ts";
+import { DEMO_PEOPLE, DEMO_TEAM, demoPerson, type DemoPerson } from "../../app/demo/people.ts";
+import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam, makeUser } from "../../tests/factories.ts";
 
 /** The demo project and its effects, as product.md describes them. */
 export const DEMO_PROJECT = {
@@ -49,17 +48,14 @@ export async function seedDemo(db: Db): Promise<{ created: boolean; teamId: stri
     // One seeder at a time (two start commands racing on one database).
     await tx.execute(sql`select pg_advisory_xact_lock(hashtext('skewsmith.seed.demo'))`);
     const [existing] = await tx.select().from(teams).where(eq(teams.slug, DEMO_TEAM.slug));
-    for (const p of DEMO_PEOPLE)
-      await upsertGitHubUser(tx, { githubId: p.githubId, login: p.login, name: p.name, email: p.email, avatarUrl: null });
+    // Every run brings the demo accounts up to date (makeUser upserts by GitHub id).
+    const account = (p: DemoPerson) => makeUser(tx, { githubId: p.githubId, login: p.login, name: p.name, email: p.email });
+    for (const p of DEMO_PEOPLE) await account(p);
     if (existing) return { created: false, teamId: existing.id };
 
-    const person = async (role: "owner" | "editor" | "viewer") => {
-      const p = demoPerson(role);
-      return upsertGitHubUser(tx, { githubId: p.githubId, login: p.login, name: p.name, email: p.email, avatarUrl: null });
-    };
-    const owner = await person("owner");
-    const editor = await person("editor");
-    const viewer = await person("viewer");
+    const owner = await account(demoPerson("owner"));
+    const editor = await account(demoPerson("editor"));
+    const viewer = await account(demoPerson("viewer"));
     const team = await makeTeam(tx, {
       owner,
       name: DEMO_TEAM.name,
