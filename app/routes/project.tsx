@@ -172,7 +172,7 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
   );
   return (
     <tr className={TROW} data-testid={`effect-row-${effect.name}`}>
-      <td className={TCELL}>
+      <td className={`${TCELL} min-w-48`}>
         <Link to={`/effects/${effect.id}`} className="font-medium text-ink-100 hover:text-glass-300">
           {effect.name}
         </Link>
