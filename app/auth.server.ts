@@ -75,7 +75,13 @@ export function createAuthenticator(database: Db, config: Env): Authenticator<Us
     clientSecret: config.GITHUB_CLIENT_SECRET,
     redirectURI: `${config.APP_URL}/auth/github/callback`,
     scopes: ["read:user", "user:email"],
-    cookie: { name: OAUTH_STATE_COOKIE, httpOnly: true, sameSite: "Lax", path: "/", ...(config.secureCookies ? { secure: true as const } : {}) },
+    cookie: {
+      name: OAUTH_STATE_COOKIE,
+      httpOnly: true,
+      sameSite: "Lax",
+      path: "/",
+      ...(config.secureCookies ? { secure: true as const } : {}),
+    },
   };
   const apiURL = config.GITHUB_API_URL ?? GITHUB_API_URL;
   const verify = async ({ tokens }: GitHubStrategy.VerifyOptions) =>

@@ -34,7 +34,9 @@ describe("readEnv", () => {
   it("takes the local stand-ins only together and only on loopback", () => {
     const fake = { GITHUB_OAUTH_URL: "http://127.0.0.1:54330", GITHUB_API_URL: "http://127.0.0.1:54330/api" };
     expect(readEnv({ ...complete, ...fake }).usesFakeGitHub).toBe(true);
-    expect(() => readEnv({ ...complete, GITHUB_OAUTH_URL: fake.GITHUB_OAUTH_URL })).toThrow(/set GITHUB_OAUTH_URL and GITHUB_API_URL together/);
+    expect(() => readEnv({ ...complete, GITHUB_OAUTH_URL: fake.GITHUB_OAUTH_URL })).toThrow(
+      /set GITHUB_OAUTH_URL and GITHUB_API_URL together/,
+    );
     expect(() => readEnv({ ...complete, GITHUB_OAUTH_URL: "http://github.example", GITHUB_API_URL: "http://github.example/api" })).toThrow(
       /GITHUB_OAUTH_URL is for local stand-ins only/,
     );

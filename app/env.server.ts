@@ -25,7 +25,10 @@ const schema = z
     /** Development and tests only: base URL of a stand-in for api.github.com. */
     GITHUB_API_URL: optionalUrl,
     /** Outgoing mail server, say smtp://127.0.0.1:54325 for the local fake. */
-    SMTP_URL: z.string().regex(/^smtps?:\/\//, "must be an smtp:// or smtps:// URL").optional(),
+    SMTP_URL: z
+      .string()
+      .regex(/^smtps?:\/\//, "must be an smtp:// or smtps:// URL")
+      .optional(),
     MAIL_FROM: z.string().default("Skewsmith <no-reply@skewsmith.invalid>"),
     /** Development and tests only: the local mail catcher's HTTP address, which turns on the mailbox page. */
     DEV_MAILBOX_URL: optionalUrl,
@@ -51,7 +54,9 @@ export function readEnv(source: Record<string, string | undefined> = process.env
   const result = schema.safeParse(source);
   if (!result.success) {
     const lines = result.error.issues.map((i) => `  ${i.path.join(".") || "(environment)"}: ${i.message}`);
-    throw new Error(`Skewsmith cannot start: the environment is incomplete.\n${lines.join("\n")}\nSee README (scripts/start sets all of these).`);
+    throw new Error(
+      `Skewsmith cannot start: the environment is incomplete.\n${lines.join("\n")}\nSee README (scripts/start sets all of these).`,
+    );
   }
   const env = result.data;
   const app = new URL(env.APP_URL);

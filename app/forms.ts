@@ -8,13 +8,36 @@ import { ROLES } from "./roles.ts";
 export const NAME_MAX = 80;
 export const DESCRIPTION_MAX = 2000;
 
-const name = (what: string) =>
+/** C0 and C1 control characters and DEL: never allowed in a name. */
+const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
+/** The same, but a description may hold tabs and line breaks. */
+const CONTROL_IN_TEXT = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/;
+/** Bidirectional embeddings, overrides, isolates and marks: they can make a name read as something else. */
+const BIDI = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
+
+/**
+ * The one text rule for every name (teams, projects, effects, sprites, target profiles, tokens): trimmed, 1 to
+ * NAME_MAX characters, no control characters, no bidirectional controls.
+ */
+export const nameText = (what: string, max = NAME_MAX) =>
   z
     .string({ error: `Give the ${what} a name.` })
     .trim()
     .min(1, `Give the ${what} a name.`)
-    .max(NAME_MAX, `Keep the ${what} name to ${NAME_MAX} characters or fewer.`)
-    .refine((v) => !/[\u0000-\u001f\u007f]/.test(v), "Names cannot contain control characters.");
+    .max(max, `Keep the ${what} name to ${max} characters or fewer.`)
+    .refine((v) => !CONTROL.test(v), "Names cannot contain control characters (such as NUL, tab or a line break).")
+    .refine((v) => !BIDI.test(v), "Names cannot contain bidirectional control characters (they can disguise a name).");
+
+/** The one text rule for every description: trimmed, at most `max` characters, line breaks and tabs allowed, no other controls. */
+export const descriptionText = (max = DESCRIPTION_MAX) =>
+  z
+    .string({ error: "The description must be text." })
+    .trim()
+    .max(max, `Keep the description to ${max} characters or fewer.`)
+    .refine((v) => !CONTROL_IN_TEXT.test(v), "The description cannot contain control characters other than tabs and line breaks.")
+    .default("");
+
+const name = nameText;
 
 const id = (what: string) => z.string({ error: `Choose a ${what}.` }).uuid(`That ${what} does not exist.`);
 
@@ -31,11 +54,7 @@ export const memberForm = z.object({ userId: id("member") });
 
 export const projectForm = z.object({
   name: name("project"),
-  description: z
-    .string()
-    .trim()
-    .max(DESCRIPTION_MAX, `Keep the description to ${DESCRIPTION_MAX} characters or fewer.`)
-    .default(""),
+  description: z.string().trim().max(DESCRIPTION_MAX, `Keep the description to ${DESCRIPTION_MAX} characters or fewer.`).default(""),
 });
 
 export const createEffectForm = z.object({
@@ -66,8 +85,7 @@ export function fieldErrors(error: z.ZodError): FieldErrors {
 
 /** What an action answers when it does not redirect: which form it was, and the field messages if it failed. */
 export type ActionResult =
-  | { ok: true; intent: string; message?: string; subject?: string }
-  | { ok: false; intent: string; errors: FieldErrors; subject?: string };
+  { ok: true; intent: string; message?: string; subject?: string } | { ok: false; intent: string; errors: FieldErrors; subject?: string };
 
 /** The field messages an action sent back for the form `intent` (and, when given, the row `subject`), if any. */
 export function errorsFor(actionData: ActionResult | undefined, intent: string, subject?: string): FieldErrors | undefined {

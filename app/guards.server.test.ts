@@ -94,7 +94,10 @@ describe("role guards", () => {
   it("tells a viewer why a change is refused", async () => {
     const w = await world();
     const result = await thrown(guards.requireProjectRole(await requestAs(w.people.viewer, "/p", "POST"), w.project.id, "editor"));
-    expect(result).toEqual({ status: 403, message: "Viewers can read but not change anything. Ask an owner of the team to make you an editor." });
+    expect(result).toEqual({
+      status: 403,
+      message: "Viewers can read but not change anything. Ask an owner of the team to make you an editor.",
+    });
     const owners = await thrown(guards.requireTeamRole(await requestAs(w.people.editor), w.team.id, "owner"));
     expect(owners.message).toBe("Only owners can do this; you are an editor in this team.");
   });
@@ -106,7 +109,9 @@ describe("role guards", () => {
     expect(await thrown(guards.requireProjectRole(request, w.project.id, "viewer"))).toMatchObject({ status: 404 });
     expect(await thrown(guards.requireEffectRole(request, w.effect.id, "viewer"))).toMatchObject({ status: 404 });
     const member = await requestAs(w.people.owner);
-    expect(await thrown(guards.requireProjectRole(member, "00000000-0000-4000-8000-000000000000", "viewer"))).toMatchObject({ status: 404 });
+    expect(await thrown(guards.requireProjectRole(member, "00000000-0000-4000-8000-000000000000", "viewer"))).toMatchObject({
+      status: 404,
+    });
     expect(await thrown(guards.requireProjectRole(member, "not-a-uuid", "viewer"))).toMatchObject({ status: 404 });
   });
 

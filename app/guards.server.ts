@@ -51,7 +51,11 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     return user;
   }
 
-  async function requireTeamRole(request: Request, teamId: string | undefined, needed: Role): Promise<{ user: User; team: Team; role: Role }> {
+  async function requireTeamRole(
+    request: Request,
+    teamId: string | undefined,
+    needed: Role,
+  ): Promise<{ user: User; team: Team; role: Role }> {
     const user = await requireUser(request);
     if (!teamId || !UUID.test(teamId)) notFound("team");
     const role = await getRole(deps.db, teamId, user.id);

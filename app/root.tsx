@@ -100,7 +100,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     title = explained?.title ?? (error.statusText || title);
     next = explained?.next ?? next;
     const detail = (error.data as { message?: string } | string | undefined) ?? "";
-    message = typeof detail === "string" ? detail || message : detail.message ?? message;
+    message = typeof detail === "string" ? detail || message : (detail.message ?? message);
   } else if (import.meta.env.DEV && error instanceof Error) {
     message = error.message;
   }

@@ -46,7 +46,10 @@ describe("database session storage", () => {
     const setCookie = await signIn(user.id);
     const id = idInCookie(setCookie);
     expect(await db.select().from(sessions).where(eq(sessions.idHash, id))).toEqual([]);
-    const [row] = await db.select().from(sessions).where(eq(sessions.idHash, hashSessionId(id)));
+    const [row] = await db
+      .select()
+      .from(sessions)
+      .where(eq(sessions.idHash, hashSessionId(id)));
     expect(row.userId).toBe(user.id);
     const session = await storage.getSession(asCookie(setCookie));
     expect(session.get("userId")).toBe(user.id);
@@ -58,7 +61,12 @@ describe("database session storage", () => {
     const session = await storage.getSession(asCookie(setCookie));
     const cleared = await storage.destroySession(session);
     expect(cleared).toMatch(/Expires=Thu, 01 Jan 1970/);
-    expect(await db.select().from(sessions).where(eq(sessions.idHash, hashSessionId(idInCookie(setCookie))))).toEqual([]);
+    expect(
+      await db
+        .select()
+        .from(sessions)
+        .where(eq(sessions.idHash, hashSessionId(idInCookie(setCookie)))),
+    ).toEqual([]);
     expect((await storage.getSession(asCookie(setCookie))).get("userId")).toBeUndefined();
   });
 
@@ -68,7 +76,10 @@ describe("database session storage", () => {
     const other = createDbSessionStorage(db, { secrets: ["another-secret-of-enough-length-for-signing"], secure: false });
     expect((await other.getSession(asCookie(setCookie))).get("userId")).toBeUndefined();
 
-    await db.update(sessions).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(sessions.idHash, hashSessionId(idInCookie(setCookie))));
+    await db
+      .update(sessions)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(sessions.idHash, hashSessionId(idInCookie(setCookie))));
     expect((await storage.getSession(asCookie(setCookie))).get("userId")).toBeUndefined();
   });
 

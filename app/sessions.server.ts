@@ -46,7 +46,10 @@ export function createDbSessionStorage(database: Db, options: { secrets: string[
       return id;
     },
     async readData(id) {
-      const [row] = await database.select().from(sessions).where(eq(sessions.idHash, hashSessionId(id)));
+      const [row] = await database
+        .select()
+        .from(sessions)
+        .where(eq(sessions.idHash, hashSessionId(id)));
       if (!row) return null;
       if (row.expiresAt.getTime() <= Date.now()) {
         await database.delete(sessions).where(eq(sessions.idHash, row.idHash));

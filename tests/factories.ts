@@ -74,10 +74,7 @@ export async function makeProject(db: Tx, input: { team: Team; actor: User; name
   });
 }
 
-export async function makeSprite(
-  db: Tx,
-  input: { project: Project; actor: User; name?: string; image?: IndexedImage },
-): Promise<Sprite> {
+export async function makeSprite(db: Tx, input: { project: Project; actor: User; name?: string; image?: IndexedImage }): Promise<Sprite> {
   return createSprite(db, {
     projectId: input.project.id,
     name: input.name ?? `sprite-${unique()}.png`,

@@ -13,7 +13,14 @@ export function CreateTeamForm({ errors: serverErrors, defaultName }: { errors?:
       <div className="flex flex-wrap items-end gap-3">
         <div className="min-w-56 flex-1">
           <Field label="Team name" name="name" error={errors?.name} hint="You become the team's owner and can add members later.">
-            <TextInput name="name" maxLength={NAME_MAX} required placeholder="Say, Night Shift Demos" defaultValue={defaultName} error={errors?.name} />
+            <TextInput
+              name="name"
+              maxLength={NAME_MAX}
+              required
+              placeholder="Say, Night Shift Demos"
+              defaultValue={defaultName}
+              error={errors?.name}
+            />
           </Field>
         </div>
         <Button variant="primary" className="mb-[1px]" name="intent" value="create-team">

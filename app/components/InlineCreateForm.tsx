@@ -26,7 +26,13 @@ export function InlineCreateForm({
   children: ReactNode;
 }) {
   return (
-    <Form method="post" className={`mt-5 grid gap-3 border-t border-ink-800 pt-5 ${columns} md:items-start`} aria-label={label} onSubmit={onSubmit} noValidate>
+    <Form
+      method="post"
+      className={`mt-5 grid gap-3 border-t border-ink-800 pt-5 ${columns} md:items-start`}
+      aria-label={label}
+      onSubmit={onSubmit}
+      noValidate
+    >
       {children}
       <div className="md:pt-5">
         <Button variant="primary" name="intent" value={intent}>

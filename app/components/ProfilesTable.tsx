@@ -11,7 +11,15 @@ export interface ProfileView extends ProfileSettings {
   effectCount: number;
 }
 
-export function ProfilesTable({ profiles, emptyHint, countLabel = "Effects" }: { profiles: ProfileView[]; emptyHint: string; countLabel?: string }) {
+export function ProfilesTable({
+  profiles,
+  emptyHint,
+  countLabel = "Effects",
+}: {
+  profiles: ProfileView[];
+  emptyHint: string;
+  countLabel?: string;
+}) {
   if (profiles.length === 0) return <EmptyState title="No target profiles">{emptyHint}</EmptyState>;
   return (
     <div className="overflow-x-auto">

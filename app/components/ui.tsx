@@ -114,12 +114,7 @@ export function TextArea({ error, ...props }: ComponentProps<"textarea"> & { err
 
 export function Select({ error, ...props }: ComponentProps<"select"> & { error?: string }) {
   return (
-    <select
-      id={props.id ?? props.name}
-      {...props}
-      aria-invalid={error ? true : undefined}
-      className={cx(INPUT, "pr-8", props.className)}
-    />
+    <select id={props.id ?? props.name} {...props} aria-invalid={error ? true : undefined} className={cx(INPUT, "pr-8", props.className)} />
   );
 }
 
@@ -137,17 +132,7 @@ export function Notice({ children }: { children: ReactNode }) {
   return <div className="rounded-md border border-glass-700 bg-glass-900/60 px-4 py-3 text-sm text-glass-200">{children}</div>;
 }
 
-export function Panel({
-  title,
-  actions,
-  children,
-  id,
-}: {
-  title: ReactNode;
-  actions?: ReactNode;
-  children: ReactNode;
-  id?: string;
-}) {
+export function Panel({ title, actions, children, id }: { title: ReactNode; actions?: ReactNode; children: ReactNode; id?: string }) {
   return (
     <section aria-labelledby={id} className="rounded-lg border border-ink-700 bg-ink-900">
       <header className="flex flex-wrap items-center justify-between gap-3 border-b border-ink-700 px-5 py-3">
@@ -214,7 +199,11 @@ export function Crumbs({ items }: { items: Crumb[] }) {
       <ol className="flex flex-wrap items-center gap-1.5">
         {items.map((c, i) => (
           <li key={`${c.label}-${i}`} className="flex items-center gap-1.5">
-            {i > 0 ? <span aria-hidden="true" className="text-ink-600">/</span> : null}
+            {i > 0 ? (
+              <span aria-hidden="true" className="text-ink-600">
+                /
+              </span>
+            ) : null}
             {c.to ? (
               <Link to={c.to} className="hover:text-glass-300">
                 {c.label}
@@ -291,11 +280,7 @@ export function SortHeader({
   const active = sort === current;
   const next = active && dir === "asc" ? "desc" : "asc";
   return (
-    <th
-      scope="col"
-      aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : "none"}
-      className={headerClass(align)}
-    >
+    <th scope="col" aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : "none"} className={headerClass(align)}>
       <Link
         to={`?sort=${sort}&dir=${next}`}
         preventScrollReset

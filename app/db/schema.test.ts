@@ -26,7 +26,11 @@ describe("the migrated schema", () => {
       where table_schema = 'public' and column_name in ('created_at', 'updated_at')`);
     for (const table of PRODUCT_TABLES)
       for (const column of ["created_at", "updated_at"])
-        expect(rows, `${table}.${column}`).toContainEqual({ table_name: table, column_name: column, data_type: "timestamp with time zone" });
+        expect(rows, `${table}.${column}`).toContainEqual({
+          table_name: table,
+          column_name: column,
+          data_type: "timestamp with time zone",
+        });
   });
 
   it("keeps roles in a PostgreSQL enum of owner, editor, viewer", async () => {

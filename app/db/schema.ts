@@ -6,6 +6,7 @@
 import { relations, sql } from "drizzle-orm";
 import {
   bigint,
+  boolean,
   check,
   customType,
   index,
@@ -24,6 +25,19 @@ import { ROLES, type Role } from "../roles.ts";
 
 export { ROLES, type Role };
 export const roleEnum = pgEnum("role", ROLES);
+
+/** What an API token may do: read, or write (which includes read). */
+export const TOKEN_SCOPES = ["read", "write"] as const;
+export type TokenScope = (typeof TOKEN_SCOPES)[number];
+export const tokenScopeEnum = pgEnum("token_scope", TOKEN_SCOPES);
+
+/** How a sprite's pixels are kept: palette indices, or 8-bit RGBA. */
+export const SPRITE_KINDS = ["indexed", "rgba"] as const;
+export type SpriteKind = (typeof SPRITE_KINDS)[number];
+export const spriteKindEnum = pgEnum("sprite_kind", SPRITE_KINDS);
+
+/** Bumped on every change of a versioned row; a change names the version it started from (a stale one is refused). */
+const version = () => integer().notNull().default(1);
 
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({
   dataType: () => "bytea",
@@ -92,6 +106,7 @@ export const teams = pgTable("teams", {
   name: text().notNull(),
   /** A stable, URL-safe handle chosen at creation. */
   slug: text().notNull().unique("teams_slug_key"),
+  version: version(),
   ...timestamps,
 });
 
@@ -117,7 +132,12 @@ export const invitations = pgTable(
     tokenHash: text().notNull().unique("invitations_token_hash_key"),
     expiresAt: timestamp({ withTimezone: true }).notNull(),
     invitedBy: actorRef(),
+    /** When the e-mail was last sent (the first time, or a resend). */
+    lastSentAt: timestamp({ withTimezone: true }),
     acceptedAt: timestamp({ withTimezone: true }),
+    acceptedBy: actorRef(),
+    /** Set when an owner revoked the invitation; its link then no longer works. */
+    revokedAt: timestamp({ withTimezone: true }),
     ...timestamps,
   },
   (t) => [index().on(t.teamId)],
@@ -133,6 +153,7 @@ export const projects = pgTable(
     /** Set when archived (a soft delete); cleared by restore. */
     archivedAt: timestamp({ withTimezone: true }),
     createdBy: actorRef(),
+    version: version(),
     ...timestamps,
   },
   (t) => [
@@ -162,8 +183,14 @@ export const targetProfiles = pgTable(
     edges: text().notNull(),
     columnGroup: integer().notNull().default(1),
     /** Export dialects, by name (say "ca65", "c99"). */
-    dialects: text().array().notNull().default(sql`'{}'::text[]`),
+    dialects: text()
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     labelPrefix: text().notNull().default(""),
+    /** Further export options the profile's effects export with by default (core's ExportOptionsInput, validated). */
+    exportOptions: jsonb().$type<Record<string, unknown>>().notNull().default({}),
+    version: version(),
     ...timestamps,
   },
   (t) => [
@@ -179,13 +206,18 @@ export const sprites = pgTable(
     id: uuidKey(),
     projectId: projectRef(),
     name: text().notNull(),
-    /** The indexed PNG file, as uploaded. */
+    /** The PNG file, as uploaded. */
     png: bytea().notNull(),
+    /** Indexed (palette) or RGBA. */
+    kind: spriteKindEnum().notNull().default("indexed"),
     width: integer().notNull(),
     height: integer().notNull(),
-    /** Palette entries as [red, green, blue, alpha], 0–255 each. */
+    /** Size of the PNG file in bytes. */
+    byteSize: integer().notNull().default(0),
+    /** Palette entries as [red, green, blue, alpha], 0–255 each; empty for an RGBA sprite. */
     palette: jsonb().$type<[number, number, number, number][]>().notNull(),
     uploadedBy: actorRef(),
+    version: version(),
     ...timestamps,
   },
   (t) => [index().on(t.projectId)],
@@ -202,7 +234,14 @@ export const effects = pgTable(
     /** Bumped on every change of the document; a save names the version it started from. */
     version: integer().notNull().default(1),
     targetProfileId: uuid().references(() => targetProfiles.id, { onDelete: "set null" }),
+    /** True while the effect follows its target profile (profile changes flow in); false once detached. */
+    followsProfile: boolean().notNull().default(true),
     spriteId: uuid().references(() => sprites.id, { onDelete: "set null" }),
+    /** Where the sprite's top-left pixel sits in the canvas, in pixels; null means centred. */
+    spriteX: integer(),
+    spriteY: integer(),
+    /** Pixels the artist marked as key (must read well), as [x, y] in sprite pixels (canvas pixels without a sprite). */
+    keyPixels: jsonb().$type<[number, number][]>().notNull().default([]),
     /** Set when deleted (soft, restorable for a grace period). */
     deletedAt: timestamp({ withTimezone: true }),
     createdBy: actorRef(),
@@ -226,8 +265,10 @@ export const apiTokens = pgTable(
     name: text().notNull(),
     /** SHA-256 of the token; the token is shown once and never stored. */
     tokenHash: text().notNull().unique("api_tokens_token_hash_key"),
+    scope: tokenScopeEnum().notNull().default("read"),
     lastUsedAt: timestamp({ withTimezone: true }),
     expiresAt: timestamp({ withTimezone: true }),
+    revokedAt: timestamp({ withTimezone: true }),
     ...timestamps,
   },
   (t) => [index().on(t.userId)],

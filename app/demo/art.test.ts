@@ -17,7 +17,7 @@ describe("compassRose", () => {
     const north = COMPASS_PALETTE.findIndex((c) => c[0] === 196 && c[1] === 72);
     let above = 0;
     let below = 0;
-    for (let y = 0; y < 32; y++) for (let x = 0; x < 32; x++) if (at(rose, x, y) === north) (y < 16 ? above++ : below++);
+    for (let y = 0; y < 32; y++) for (let x = 0; x < 32; x++) if (at(rose, x, y) === north) y < 16 ? above++ : below++;
     expect(above).toBeGreaterThan(10);
     expect(below).toBe(0);
   });

@@ -158,14 +158,12 @@ export function stormBackground(width = 256, height = 224): IndexedImage {
     }
   // The harbour mole on the right, with a lamp post.
   const moleTop = horizon - Math.round(height * 0.05);
-  for (let y = moleTop; y < horizon + 6; y++)
-    for (let x = Math.round(width * 0.68); x < width; x++) indices[y * width + x] = 10;
+  for (let y = moleTop; y < horizon + 6; y++) for (let x = Math.round(width * 0.68); x < width; x++) indices[y * width + x] = 10;
   const postX = Math.round(width * 0.86);
   for (let y = moleTop - 30; y < moleTop; y++) {
     indices[y * width + postX] = 10;
     indices[y * width + postX + 1] = 10;
   }
-  for (let y = moleTop - 34; y < moleTop - 30; y++)
-    for (let x = postX - 1; x < postX + 3; x++) indices[y * width + x] = 11;
+  for (let y = moleTop - 34; y < moleTop - 30; y++) for (let x = postX - 1; x < postX + 3; x++) indices[y * width + x] = 11;
   return { kind: "indexed", width, height, data: indices, palette: STORM_PALETTE };
 }

@@ -25,11 +25,7 @@ export interface ActivityItem {
 }
 
 /** The latest activity of a team, or of one project when `projectId` is given, newest first. */
-export async function listActivity(
-  db: Tx,
-  where: { teamId: string; projectId?: string },
-  limit = 20,
-): Promise<ActivityItem[]> {
+export async function listActivity(db: Tx, where: { teamId: string; projectId?: string }, limit = 20): Promise<ActivityItem[]> {
   const rows = await db
     .select({
       id: activity.id,
@@ -42,9 +38,7 @@ export async function listActivity(
     .from(activity)
     .leftJoin(users, eq(users.id, activity.userId))
     .where(
-      where.projectId
-        ? and(eq(activity.teamId, where.teamId), eq(activity.projectId, where.projectId))
-        : eq(activity.teamId, where.teamId),
+      where.projectId ? and(eq(activity.teamId, where.teamId), eq(activity.projectId, where.projectId)) : eq(activity.teamId, where.teamId),
     )
     .orderBy(desc(activity.createdAt), desc(activity.id))
     .limit(limit);

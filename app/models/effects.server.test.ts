@@ -43,7 +43,14 @@ describe("createEffect", () => {
 
   it("takes canvas and arithmetic from the chosen target profile", async () => {
     const { owner, team, project } = await setup();
-    const profile = await makeTargetProfile(db, { team, canvasWidth: 256, canvasHeight: 224, fixedPointBits: 8, fixedPointFraction: 6, columnGroup: 16 });
+    const profile = await makeTargetProfile(db, {
+      team,
+      canvasWidth: 256,
+      canvasHeight: 224,
+      fixedPointBits: 8,
+      fixedPointFraction: 6,
+      columnGroup: 16,
+    });
     const effect = await createEffect(db, { projectId: project.id, name: "Tilt", targetProfileId: profile.id, actorId: owner.id });
     expect(effect.targetProfileId).toBe(profile.id);
     expect(effect.document).toEqual(newEffectDocument(profile));
@@ -56,10 +63,14 @@ describe("createEffect", () => {
     const b = await setup();
     const foreignProfile = await makeTargetProfile(db, { team: b.team });
     const foreignSprite = await makeSprite(db, { project: b.project, actor: b.owner });
-    await expect(createEffect(db, { projectId: a.project.id, name: "X", targetProfileId: foreignProfile.id, actorId: a.owner.id })).rejects.toMatchObject({
+    await expect(
+      createEffect(db, { projectId: a.project.id, name: "X", targetProfileId: foreignProfile.id, actorId: a.owner.id }),
+    ).rejects.toMatchObject({
       field: "targetProfileId",
     });
-    await expect(createEffect(db, { projectId: a.project.id, name: "Y", spriteId: foreignSprite.id, actorId: a.owner.id })).rejects.toMatchObject({
+    await expect(
+      createEffect(db, { projectId: a.project.id, name: "Y", spriteId: foreignSprite.id, actorId: a.owner.id }),
+    ).rejects.toMatchObject({
       field: "spriteId",
     });
   });
@@ -139,7 +150,10 @@ describe("saveEffectDocument", () => {
     expect(saved.document.edges).toBe("clip");
     await expect(
       saveEffectDocument(db, { effectId: effect.id, document: { ...changed, edges: "wrap" }, expectedVersion: 1, actorId: owner.id }),
-    ).rejects.toMatchObject({ status: 409, message: expect.stringMatching(/Someone saved this effect after you opened it \(now version 2/) });
+    ).rejects.toMatchObject({
+      status: 409,
+      message: expect.stringMatching(/Someone saved this effect after you opened it \(now version 2/),
+    });
     expect((await getEffect(db, effect.id))?.document.edges).toBe("clip");
   });
 
@@ -147,7 +161,12 @@ describe("saveEffectDocument", () => {
     const { owner, project } = await setup();
     const effect = await makeEffect(db, { project, actor: owner });
     await expect(
-      saveEffectDocument(db, { effectId: effect.id, document: { ...effect.document, columnGroup: 65 }, expectedVersion: 1, actorId: owner.id }),
+      saveEffectDocument(db, {
+        effectId: effect.id,
+        document: { ...effect.document, columnGroup: 65 },
+        expectedVersion: 1,
+        actorId: owner.id,
+      }),
     ).rejects.toThrow(/columnGroup: 65 is not allowed/);
     expect(await getEffect(db, effect.id)).toMatchObject({ version: 1, document: effect.document });
   });

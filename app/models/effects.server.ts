@@ -15,9 +15,12 @@ const NAME_TAKEN = (name: string) =>
 export function validDocument(document: unknown): Effect {
   const result = checkEffect(document);
   if (!result.ok)
-    throw new DomainError(`The effect document is not valid: ${result.issues.map((i) => `${i.path || "(document)"}: ${i.message}`).join("; ")}`, {
-      field: "document",
-    });
+    throw new DomainError(
+      `The effect document is not valid: ${result.issues.map((i) => `${i.path || "(document)"}: ${i.message}`).join("; ")}`,
+      {
+        field: "document",
+      },
+    );
   return result.effect;
 }
 

@@ -33,7 +33,9 @@ describe("createProject and updateProject", () => {
       message: "The team already has a project called “title screen”. Choose another name.",
     });
     const other = await createProject(db, { teamId: team.id, name: "Other", actorId: owner.id });
-    await expect(updateProject(db, { projectId: other.id, name: "TITLE SCREEN", description: "", actorId: owner.id })).rejects.toMatchObject({
+    await expect(
+      updateProject(db, { projectId: other.id, name: "TITLE SCREEN", description: "", actorId: owner.id }),
+    ).rejects.toMatchObject({
       field: "name",
     });
   });
@@ -42,7 +44,9 @@ describe("createProject and updateProject", () => {
     const a = await teamWithOwner();
     const b = await teamWithOwner();
     await createProject(db, { teamId: a.team.id, name: "Shared Name", actorId: a.owner.id });
-    await expect(createProject(db, { teamId: b.team.id, name: "Shared Name", actorId: b.owner.id })).resolves.toMatchObject({ name: "Shared Name" });
+    await expect(createProject(db, { teamId: b.team.id, name: "Shared Name", actorId: b.owner.id })).resolves.toMatchObject({
+      name: "Shared Name",
+    });
   });
 });
 
@@ -73,7 +77,9 @@ describe("archiveProject and restoreProject", () => {
     const { owner, team } = await teamWithOwner();
     const project = await makeProject(db, { team, actor: owner });
     await archiveProject(db, { projectId: project.id, actorId: owner.id });
-    await expect(updateProject(db, { projectId: project.id, name: "New", description: "", actorId: owner.id })).rejects.toThrow(/Restore the project/);
+    await expect(updateProject(db, { projectId: project.id, name: "New", description: "", actorId: owner.id })).rejects.toThrow(
+      /Restore the project/,
+    );
   });
 });
 
@@ -113,7 +119,12 @@ describe("listProjects", () => {
     const pa = await makeProject(db, { team: teamA, actor: a });
     const pb = await makeProject(db, { team: teamB, actor: b });
     const mine = await listProjectsForUser(db, b.id);
-    expect(mine.map((p) => [p.id, p.role]).sort()).toEqual([[pa.id, "viewer"], [pb.id, "owner"]].sort());
+    expect(mine.map((p) => [p.id, p.role]).sort()).toEqual(
+      [
+        [pa.id, "viewer"],
+        [pb.id, "owner"],
+      ].sort(),
+    );
     expect((await listProjectsForUser(db, a.id)).map((p) => p.id)).toEqual([pa.id]);
   });
 });

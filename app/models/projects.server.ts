@@ -128,10 +128,9 @@ export async function restoreProject(db: Tx, input: { projectId: string; actorId
       try {
         await assertNameFree(tx, project.teamId, project.name, project.id);
       } catch {
-        throw new DomainError(
-          `Another project is now called “${project.name}”. Rename that one first, then restore this one.`,
-          { status: 409 },
-        );
+        throw new DomainError(`Another project is now called “${project.name}”. Rename that one first, then restore this one.`, {
+          status: 409,
+        });
       }
       await tx.update(projects).set({ archivedAt: null }).where(eq(projects.id, project.id));
       await recordActivity(tx, {
@@ -159,9 +158,10 @@ export interface ProjectListItem {
 // table, and inside the subquery that bare name would bind to the inner table instead.
 const effectCount = sql<number>`(select count(*)::int from ${effects} e where e.project_id = "projects"."id" and e.deleted_at is null)`;
 /** The latest change to the project or any of its effects (deleting an effect counts). */
-const lastChangedAt = sql<Date>`greatest("projects"."updated_at", (select max(e.updated_at) from ${effects} e where e.project_id = "projects"."id"))`.mapWith(
-  (v: string | Date) => new Date(v),
-);
+const lastChangedAt =
+  sql<Date>`greatest("projects"."updated_at", (select max(e.updated_at) from ${effects} e where e.project_id = "projects"."id"))`.mapWith(
+    (v: string | Date) => new Date(v),
+  );
 
 /** The columns of a ProjectListItem, for every query that lists projects. */
 const listColumns = {

@@ -30,6 +30,8 @@ export async function createSprite(
         projectId: project.id,
         name: input.name,
         png: Buffer.from(input.png),
+        kind: "indexed",
+        byteSize: input.png.byteLength,
         width: image.width,
         height: image.height,
         palette: image.palette.map((p) => [...p] as [number, number, number, number]),

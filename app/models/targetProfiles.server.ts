@@ -51,7 +51,10 @@ export async function createTargetProfile(
   }
   try {
     return await db.transaction(async (tx) => {
-      const [profile] = await tx.insert(targetProfiles).values({ teamId: input.teamId, ...settings }).returning();
+      const [profile] = await tx
+        .insert(targetProfiles)
+        .values({ teamId: input.teamId, ...settings })
+        .returning();
       await recordActivity(tx, {
         teamId: input.teamId,
         userId: input.actorId,

@@ -3,7 +3,17 @@ import { makeTeam, makeUser } from "../../tests/factories.ts";
 import { testDb } from "../../tests/support/db.ts";
 import { listActivity } from "./activity.server.ts";
 import { DomainError } from "./errors.ts";
-import { addMember, changeRole, createTeam, getRole, listMembers, listTeamsForUser, removeMember, renameTeam, slugify } from "./teams.server.ts";
+import {
+  addMember,
+  changeRole,
+  createTeam,
+  getRole,
+  listMembers,
+  listTeamsForUser,
+  removeMember,
+  renameTeam,
+  slugify,
+} from "./teams.server.ts";
 
 const db = testDb();
 afterAll(() => db.$client.end());
@@ -94,7 +104,9 @@ describe("changeRole", () => {
   it("refuses someone who is not a member", async () => {
     const [owner, stranger] = [await makeUser(db), await makeUser(db)];
     const team = await makeTeam(db, { owner });
-    await expect(changeRole(db, { teamId: team.id, userId: stranger.id, role: "viewer", actorId: owner.id })).rejects.toThrow(/not a member/);
+    await expect(changeRole(db, { teamId: team.id, userId: stranger.id, role: "viewer", actorId: owner.id })).rejects.toThrow(
+      /not a member/,
+    );
   });
 });
 
@@ -124,7 +136,9 @@ describe("addMember and renameTeam", () => {
   it("refuses to add someone twice and keeps the handle when renaming", async () => {
     const [owner, member] = [await makeUser(db), await makeUser(db)];
     const team = await makeTeam(db, { owner, members: [{ user: member, role: "viewer" }] });
-    await expect(addMember(db, { teamId: team.id, userId: member.id, role: "editor", actorId: owner.id })).rejects.toThrow(/already a member/);
+    await expect(addMember(db, { teamId: team.id, userId: member.id, role: "editor", actorId: owner.id })).rejects.toThrow(
+      /already a member/,
+    );
     await renameTeam(db, { teamId: team.id, name: "Renamed Team", actorId: owner.id });
     const [mine] = (await listTeamsForUser(db, owner.id)).filter((t) => t.id === team.id);
     expect(mine).toMatchObject({ name: "Renamed Team", slug: team.slug });

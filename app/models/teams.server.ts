@@ -34,7 +34,8 @@ export async function createTeam(db: Tx, input: { name: string; ownerId: string;
     try {
       [team] = await tx.insert(teams).values({ name: input.name, slug }).returning();
     } catch (error) {
-      if (isUniqueViolation(error)) throw new DomainError("Another team was just created with this name; try again.", { field: "name", status: 409 });
+      if (isUniqueViolation(error))
+        throw new DomainError("Another team was just created with this name; try again.", { field: "name", status: 409 });
       throw error;
     }
     await tx.insert(memberships).values({ teamId: team.id, userId: input.ownerId, role: "owner" });
@@ -138,10 +139,7 @@ async function lockMembers(tx: Tx, teamId: string) {
 }
 
 /** Changes a member's role; a team always keeps at least one owner. */
-export async function changeRole(
-  db: Tx,
-  input: { teamId: string; userId: string; role: Role; actorId: string },
-): Promise<void> {
+export async function changeRole(db: Tx, input: { teamId: string; userId: string; role: Role; actorId: string }): Promise<void> {
   await db.transaction(async (tx) => {
     const members = await lockMembers(tx, input.teamId);
     const member = members.find((m) => m.userId === input.userId);

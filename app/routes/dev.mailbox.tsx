@@ -48,7 +48,10 @@ export default function Mailbox({ loaderData, actionData }: Route.ComponentProps
     <div className="flex flex-col gap-6">
       <div>
         <Crumbs items={[{ label: "Home", to: "/" }, { label: "Mailbox" }]} />
-        <PageTitle title="Mailbox" meta="Development only: every message the app sent, as the local mail server caught it. Nothing leaves this machine." />
+        <PageTitle
+          title="Mailbox"
+          meta="Development only: every message the app sent, as the local mail server caught it. Nothing leaves this machine."
+        />
       </div>
       <Form method="post" className="flex flex-wrap items-center gap-3">
         <Button name="intent" value="send-test" disabled={!email}>

@@ -181,7 +181,10 @@ export default function EffectPage({ loaderData }: Route.ComponentProps) {
         <p className="mb-3 text-sm text-ink-400">
           Validated by the core with every default filled in: what the CLI reads and what exports are computed from.
         </p>
-        <pre className="num max-h-96 overflow-auto rounded-md bg-ink-950 p-4 text-xs leading-relaxed text-ink-200" data-testid="effect-document">
+        <pre
+          className="num max-h-96 overflow-auto rounded-md bg-ink-950 p-4 text-xs leading-relaxed text-ink-200"
+          data-testid="effect-document"
+        >
           {JSON.stringify(doc, null, 2)}
         </pre>
       </Panel>

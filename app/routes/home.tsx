@@ -25,8 +25,8 @@ export default function Home({ loaderData }: Route.ComponentProps) {
       {teams.length === 0 ? (
         <Panel title="Start with a team" id="start">
           <p className="mb-4 text-sm text-ink-300">
-            You are not in a team yet. Projects, effects, sprites and target profiles all belong to a team. Create one here, or ask an owner of an
-            existing team to add you.
+            You are not in a team yet. Projects, effects, sprites and target profiles all belong to a team. Create one here, or ask an owner
+            of an existing team to add you.
           </p>
           <CreateTeamForm />
         </Panel>

@@ -124,7 +124,12 @@ export async function action({ request, params }: Route.ActionArgs) {
       const parsed = parseForm(createEffectForm, form);
       if (!parsed.ok) return invalid(intent, parsed.errors);
       return attempt(intent, async () => {
-        const effect = await createEffect(db(), { projectId: project.id, name: parsed.data.name, targetProfileId: parsed.data.targetProfileId, actorId });
+        const effect = await createEffect(db(), {
+          projectId: project.id,
+          name: parsed.data.name,
+          targetProfileId: parsed.data.targetProfileId,
+          actorId,
+        });
         return `Created ${effect.name}.`;
       });
     }
@@ -132,7 +137,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       const parsed = parseForm(renameEffectForm, form);
       if (!parsed.ok) return invalid(intent, parsed.errors, 400, String(form.get("effectId") ?? ""));
       if (!(await effectOfProject())) return invalid(intent, { form: "That effect is not in this project." }, 404, parsed.data.effectId);
-      return attempt(intent, async () => void (await renameEffect(db(), { effectId: parsed.data.effectId, name: parsed.data.name, actorId })), parsed.data.effectId);
+      return attempt(
+        intent,
+        async () => void (await renameEffect(db(), { effectId: parsed.data.effectId, name: parsed.data.name, actorId })),
+        parsed.data.effectId,
+      );
     }
     case "duplicate-effect":
     case "delete-effect":
@@ -191,7 +200,9 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
         <td className={`${TCELL} text-right`}>
           <div className="flex items-center justify-end gap-1">
             <details ref={renameBox} open={renaming || undefined}>
-              <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-xs text-ink-300 hover:bg-ink-800 hover:text-ink-100">Rename</summary>
+              <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-xs text-ink-300 hover:bg-ink-800 hover:text-ink-100">
+                Rename
+              </summary>
               <fetcher.Form
                 method="post"
                 onSubmit={renameCheck.onSubmit}
@@ -200,7 +211,14 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
               >
                 <input type="hidden" name="effectId" value={effect.id} />
                 <Field label="New name" name={`rename-${effect.id}`} error={errors?.name}>
-                  <TextInput id={`rename-${effect.id}`} name="name" defaultValue={effect.name} maxLength={NAME_MAX} required error={errors?.name} />
+                  <TextInput
+                    id={`rename-${effect.id}`}
+                    name="name"
+                    defaultValue={effect.name}
+                    maxLength={NAME_MAX}
+                    required
+                    error={errors?.name}
+                  />
                 </Field>
                 <Button size="sm" variant="primary" name="intent" value="rename-effect" disabled={busy}>
                   Save name
@@ -235,9 +253,7 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
           title={project.name}
           meta={
             <>
-              <span>
-                {team.name} · your role
-              </span>
+              <span>{team.name} · your role</span>
               <RoleBadge role={role} />
             </>
           }
@@ -255,7 +271,8 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
         <div className="mt-4 flex flex-col gap-3">
           {archived ? (
             <Notice>
-              This project is archived: it is hidden from the team's list and its effects cannot change. {canEdit ? "Restore it to work on it again." : "An editor or owner can restore it."}
+              This project is archived: it is hidden from the team's list and its effects cannot change.{" "}
+              {canEdit ? "Restore it to work on it again." : "An editor or owner can restore it."}
             </Notice>
           ) : null}
           {notice ? <Notice>{notice}</Notice> : null}
@@ -264,12 +281,31 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
         {canEdit && !archived ? (
           <details className="mt-4 max-w-3xl" open={detailsErrors !== undefined}>
             <summary className="cursor-pointer text-sm text-ink-400 hover:text-ink-200">Edit name and description</summary>
-            <Form method="post" className="mt-3 flex flex-col gap-3" aria-label="Project details" onSubmit={detailsCheck.onSubmit} noValidate>
+            <Form
+              method="post"
+              className="mt-3 flex flex-col gap-3"
+              aria-label="Project details"
+              onSubmit={detailsCheck.onSubmit}
+              noValidate
+            >
               <Field label="Name" name="project-name" error={detailsErrors?.name}>
-                <TextInput id="project-name" name="name" defaultValue={project.name} maxLength={NAME_MAX} required error={detailsErrors?.name} />
+                <TextInput
+                  id="project-name"
+                  name="name"
+                  defaultValue={project.name}
+                  maxLength={NAME_MAX}
+                  required
+                  error={detailsErrors?.name}
+                />
               </Field>
               <Field label="Description" name="project-description" error={detailsErrors?.description}>
-                <TextArea id="project-description" name="description" defaultValue={project.description} maxLength={DESCRIPTION_MAX} error={detailsErrors?.description} />
+                <TextArea
+                  id="project-description"
+                  name="description"
+                  defaultValue={project.description}
+                  maxLength={DESCRIPTION_MAX}
+                  error={detailsErrors?.description}
+                />
               </Field>
               <FormError>{detailsErrors?.form}</FormError>
               <div>
@@ -327,7 +363,9 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
             </Field>
             <Field label="Target profile" name="targetProfileId" error={createErrors?.targetProfileId}>
               <Select name="targetProfileId" defaultValue="" error={createErrors?.targetProfileId}>
-                <option value="">Own settings ({NEW_EFFECT_CANVAS} × {NEW_EFFECT_CANVAS}, Q8.8)</option>
+                <option value="">
+                  Own settings ({NEW_EFFECT_CANVAS} × {NEW_EFFECT_CANVAS}, Q8.8)
+                </option>
                 {profiles.map((p) => (
                   <option key={p.id} value={p.id}>
                     {p.name} ({p.canvasWidth} × {p.canvasHeight}, {qNotation({ bits: p.fixedPointBits, fraction: p.fixedPointFraction })})
@@ -352,12 +390,18 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
         <p className="mb-3 text-sm text-ink-400">
           Shared by every project of {team.name}; the count is of this project's effects that use each one.
         </p>
-        <ProfilesTable profiles={profiles} emptyHint="The team has no target profiles yet; effects keep their own settings." countLabel="Used here" />
+        <ProfilesTable
+          profiles={profiles}
+          emptyHint="The team has no target profiles yet; effects keep their own settings."
+          countLabel="Used here"
+        />
       </Panel>
       <div className="grid gap-8 lg:grid-cols-[2fr_3fr]">
         <Panel title="Sprites" id="sprites">
           {sprites.length === 0 ? (
-            <EmptyState title="No sprites in this project">Sprites are indexed (palette) PNG pictures that effects turn; the demo project shows two.</EmptyState>
+            <EmptyState title="No sprites in this project">
+              Sprites are indexed (palette) PNG pictures that effects turn; the demo project shows two.
+            </EmptyState>
           ) : (
             <ul className="flex flex-col gap-3">
               {sprites.map((s) => (

@@ -17,9 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     next,
     error: error ? (SIGN_IN_ERRORS[error] ?? SIGN_IN_ERRORS.provider) : null,
     signedOut: url.searchParams.has("signed-out"),
-    demo: env().usesFakeGitHub
-      ? DEMO_PEOPLE.map((p) => ({ name: p.name, login: p.login, role: p.role }))
-      : null,
+    demo: env().usesFakeGitHub ? DEMO_PEOPLE.map((p) => ({ name: p.name, login: p.login, role: p.role })) : null,
   };
 }
 
@@ -47,8 +45,8 @@ export default function SignIn({ loaderData }: Route.ComponentProps) {
       {demo ? (
         <div className="mt-5 rounded-lg border border-ink-700 px-6 py-4 text-sm text-ink-300">
           <p>
-            <span className="font-medium text-ink-100">Development:</span> sign-in goes to a local stand-in for GitHub, where you choose one of
-            these demo accounts:
+            <span className="font-medium text-ink-100">Development:</span> sign-in goes to a local stand-in for GitHub, where you choose one
+            of these demo accounts:
           </p>
           <ul className="mt-2 space-y-1">
             {demo.map((p) => (

@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { Form, Link, redirect, useFetcher } from "react-router";
 import type { Route } from "./+types/team";
 import { attempt, invalid, requireAtLeast, unknownIntent } from "../actions.server.ts";
@@ -118,7 +118,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       requireAtLeast(role, "owner");
       const parsed = parseForm(memberForm, form);
       if (!parsed.ok) return invalid(intent, parsed.errors);
-      return attempt(intent, () => removeMember(db(), { teamId: team.id, userId: parsed.data.userId, actorId: user.id }), parsed.data.userId);
+      return attempt(
+        intent,
+        () => removeMember(db(), { teamId: team.id, userId: parsed.data.userId, actorId: user.id }),
+        parsed.data.userId,
+      );
     }
     case "leave-team": {
       const result = await attempt(intent, () => removeMember(db(), { teamId: team.id, userId: user.id, actorId: user.id }));
@@ -130,14 +134,25 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
 }
 
-function MemberRow({ member, me, canManage }: { member: Route.ComponentProps["loaderData"]["members"][number]; me: string; canManage: boolean }) {
+function MemberRow({
+  member,
+  me,
+  canManage,
+}: {
+  member: Route.ComponentProps["loaderData"]["members"][number];
+  me: string;
+  canManage: boolean;
+}) {
   const fetcher = useFetcher<ActionResult>({ key: `member-${member.userId}` });
   const error = fetcher.data && !fetcher.data.ok ? Object.values(fetcher.data.errors)[0] : undefined;
   // After a refused change, put the menu back to the role the member really has.
+  // (State adjusted during render when the answer changes, as React recommends instead of an effect.)
   const [refusals, setRefusals] = useState(0);
-  useEffect(() => {
+  const [answer, setAnswer] = useState(fetcher.data);
+  if (fetcher.data !== answer) {
+    setAnswer(fetcher.data);
     if (fetcher.data && !fetcher.data.ok) setRefusals((n) => n + 1);
-  }, [fetcher.data]);
+  }
   const busy = fetcher.state !== "idle";
   return (
     <tr className={TROW} data-testid={`member-${member.login}`}>
@@ -154,7 +169,13 @@ function MemberRow({ member, me, canManage }: { member: Route.ComponentProps["lo
             <label className="sr-only" htmlFor={`role-${member.userId}`}>
               Role of {member.name ?? member.login}
             </label>
-            <Select key={`${member.role}-${refusals}`} id={`role-${member.userId}`} name="role" defaultValue={member.role} className="w-28 py-1">
+            <Select
+              key={`${member.role}-${refusals}`}
+              id={`role-${member.userId}`}
+              name="role"
+              defaultValue={member.role}
+              className="w-28 py-1"
+            >
               {ROLES.map((r) => (
                 <option key={r} value={r}>
                   {r}
@@ -191,12 +212,29 @@ function MemberRow({ member, me, canManage }: { member: Route.ComponentProps["lo
   );
 }
 
-function ProfileForm({ options, actionData }: { options: Route.ComponentProps["loaderData"]["options"]; actionData: ActionResult | undefined }) {
+function ProfileForm({
+  options,
+  actionData,
+}: {
+  options: Route.ComponentProps["loaderData"]["options"];
+  actionData: ActionResult | undefined;
+}) {
   const errors = errorsFor(actionData, "create-profile");
   const created = actionData?.ok && actionData.intent === "create-profile" ? actionData.message : undefined;
   const number = (name: string, label: string, value: number, min: number, max: number) => (
     <Field label={label} name={`profile-${name}`} error={errors?.[name]}>
-      <TextInput id={`profile-${name}`} name={name} type="number" inputMode="numeric" min={min} max={max} defaultValue={value} required error={errors?.[name]} className="num" />
+      <TextInput
+        id={`profile-${name}`}
+        name={name}
+        type="number"
+        inputMode="numeric"
+        min={min}
+        max={max}
+        defaultValue={value}
+        required
+        error={errors?.[name]}
+        className="num"
+      />
     </Field>
   );
   const choice = (name: string, label: string, values: readonly (string | number)[], value: string | number) => (
@@ -216,10 +254,22 @@ function ProfileForm({ options, actionData }: { options: Route.ComponentProps["l
       <Form method="post" className="mt-4 flex flex-col gap-4" aria-label="New target profile">
         <div className="grid gap-3 md:grid-cols-[2fr_3fr]">
           <Field label="Profile name" name="profile-name" error={errors?.name}>
-            <TextInput id="profile-name" name="name" maxLength={NAME_MAX} required placeholder="Say, 16-bit full screen" error={errors?.name} />
+            <TextInput
+              id="profile-name"
+              name="name"
+              maxLength={NAME_MAX}
+              required
+              placeholder="Say, 16-bit full screen"
+              error={errors?.name}
+            />
           </Field>
           <Field label="Profile description (optional)" name="profile-description" error={errors?.description}>
-            <TextInput id="profile-description" name="description" maxLength={DESCRIPTION_MAX} placeholder="Which target and mode it is for" />
+            <TextInput
+              id="profile-description"
+              name="description"
+              maxLength={DESCRIPTION_MAX}
+              placeholder="Which target and mode it is for"
+            />
           </Field>
         </div>
         <div className="grid grid-cols-2 gap-3 md:grid-cols-4 lg:grid-cols-8">
@@ -235,7 +285,14 @@ function ProfileForm({ options, actionData }: { options: Route.ComponentProps["l
         <div className="flex flex-wrap items-end gap-3">
           <div className="w-48">
             <Field label="Label prefix (optional)" name="profile-labelPrefix" error={errors?.labelPrefix}>
-              <TextInput id="profile-labelPrefix" name="labelPrefix" maxLength={32} placeholder="say, rot_" className="num" error={errors?.labelPrefix} />
+              <TextInput
+                id="profile-labelPrefix"
+                name="labelPrefix"
+                maxLength={32}
+                placeholder="say, rot_"
+                className="num"
+                error={errors?.labelPrefix}
+              />
             </Field>
           </div>
           <Button variant="primary" name="intent" value="create-profile">
@@ -293,7 +350,9 @@ export default function TeamPage({ loaderData, actionData }: Route.ComponentProp
       <Panel title="Projects" id="projects">
         {projects.length === 0 ? (
           <EmptyState title="No projects yet">
-            {canEdit ? "Create the team's first project below: it will hold effects, sprites and the target profiles they use." : "When an editor or owner creates a project, it shows up here."}
+            {canEdit
+              ? "Create the team's first project below: it will hold effects, sprites and the target profiles they use."
+              : "When an editor or owner creates a project, it shows up here."}
           </EmptyState>
         ) : (
           <table className={TABLE} data-testid="projects-table">
@@ -336,7 +395,13 @@ export default function TeamPage({ loaderData, actionData }: Route.ComponentProp
               <TextInput name="name" maxLength={NAME_MAX} required placeholder="Say, Harbour level" error={createErrors?.name} />
             </Field>
             <Field label="Description (optional)" name="description" error={createErrors?.description}>
-              <TextArea name="description" rows={1} maxLength={DESCRIPTION_MAX} placeholder="What the project is for" error={createErrors?.description} />
+              <TextArea
+                name="description"
+                rows={1}
+                maxLength={DESCRIPTION_MAX}
+                placeholder="What the project is for"
+                error={createErrors?.description}
+              />
             </Field>
           </InlineCreateForm>
         ) : null}
@@ -392,7 +457,9 @@ export default function TeamPage({ loaderData, actionData }: Route.ComponentProp
         <p className="mb-3 text-sm text-ink-400">Shared presets of canvas and arithmetic; every project of the team can use them.</p>
         <ProfilesTable
           profiles={profiles}
-          emptyHint={canEdit ? "Create one below; new effects can then start from its canvas and arithmetic." : "Editors and owners can create them."}
+          emptyHint={
+            canEdit ? "Create one below; new effects can then start from its canvas and arithmetic." : "Editors and owners can create them."
+          }
         />
         {canEdit ? <ProfileForm options={options} actionData={actionData} /> : null}
       </Panel>

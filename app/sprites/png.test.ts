@@ -37,7 +37,19 @@ describe("sprite PNG files", () => {
 
   it("keep a transparent entry that comes after an opaque one (PNG spec §11.3.2.1: tRNS alphas follow palette order)", () => {
     // fast-png alone writes only the translucent alphas, so entry 0 (opaque red) would read as transparent.
-    const bare = readIndexed(encode({ width: 2, height: 1, data: Uint8Array.from([0, 1]), depth: 8, channels: 1, palette: [[255, 0, 0, 255], [0, 0, 0, 0]] }));
+    const bare = readIndexed(
+      encode({
+        width: 2,
+        height: 1,
+        data: Uint8Array.from([0, 1]),
+        depth: 8,
+        channels: 1,
+        palette: [
+          [255, 0, 0, 255],
+          [0, 0, 0, 0],
+        ],
+      }),
+    );
     expect(bare.trns[0]).toBe(0);
     const file = readIndexed(encodePng(tiny));
     expect(file.trns).toEqual([255, 0]);
@@ -63,7 +75,12 @@ describe("decodeIndexedPng", () => {
     expect(four.palette[2][3]).toBe(255);
 
     const bits = [1, 0, 1, 1, 0, 0, 1, 0, 1, 1];
-    const one = decodeIndexedPng(writeIndexed(5, 2, 1, bits, [[0, 0, 0], [255, 255, 255]]));
+    const one = decodeIndexedPng(
+      writeIndexed(5, 2, 1, bits, [
+        [0, 0, 0],
+        [255, 255, 255],
+      ]),
+    );
     expect([...one.data]).toEqual(bits);
   });
 

@@ -16,7 +16,8 @@ import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam, makeU
 /** The demo project and its effects, as product.md describes them. */
 export const DEMO_PROJECT = {
   name: "Lantern Quay",
-  description: "Harbour-themed platformer for an 8-bit console: the spinning emblem of the title screen and the tilting background of the storm level.",
+  description:
+    "Harbour-themed platformer for an 8-bit console: the spinning emblem of the title screen and the tilting background of the storm level.",
 } as const;
 
 export const COMPASS_EFFECT = {
@@ -100,8 +101,22 @@ export async function seedDemo(db: Db): Promise<{ created: boolean; teamId: stri
     const project = await makeProject(tx, { team, actor: owner, ...DEMO_PROJECT });
     const rose = await makeSprite(tx, { project, actor: editor, name: "compass-rose.png", image: compassRose(32) });
     const storm = await makeSprite(tx, { project, actor: editor, name: "storm-harbour.png", image: stormBackground(256, 224) });
-    await makeEffect(tx, { project, actor: editor, name: COMPASS_EFFECT.name, document: COMPASS_EFFECT.document, targetProfile: titleScreen, sprite: rose });
-    await makeEffect(tx, { project, actor: editor, name: STORM_EFFECT.name, document: STORM_EFFECT.document, targetProfile: stormLevel, sprite: storm });
+    await makeEffect(tx, {
+      project,
+      actor: editor,
+      name: COMPASS_EFFECT.name,
+      document: COMPASS_EFFECT.document,
+      targetProfile: titleScreen,
+      sprite: rose,
+    });
+    await makeEffect(tx, {
+      project,
+      actor: editor,
+      name: STORM_EFFECT.name,
+      document: STORM_EFFECT.document,
+      targetProfile: stormLevel,
+      sprite: storm,
+    });
     return { created: true, teamId: team.id };
   });
 }
@@ -115,7 +130,9 @@ if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) 
   const db = createDb(url, { max: 1 });
   try {
     const { created } = await seedDemo(db);
-    console.error(created ? `db:seed: created the demo team ${DEMO_TEAM.name}` : `db:seed: the demo team ${DEMO_TEAM.name} is already there`);
+    console.error(
+      created ? `db:seed: created the demo team ${DEMO_TEAM.name}` : `db:seed: the demo team ${DEMO_TEAM.name} is already there`,
+    );
   } finally {
     await db.$client.end();
   }

@@ -43,7 +43,9 @@ describe("the local GitHub stand-in", () => {
   });
 
   it("checks the client secret and the redirect URI at the token exchange", async () => {
-    expect(await (await exchange(await codeFor("oren-saltmarsh"), basic("cid", "wrong"))).json()).toMatchObject({ error: "invalid_client" });
+    expect(await (await exchange(await codeFor("oren-saltmarsh"), basic("cid", "wrong"))).json()).toMatchObject({
+      error: "invalid_client",
+    });
     const mismatch = await exchange(await codeFor("oren-saltmarsh"), basic("cid", "csecret"), "http://127.0.0.1:3000/elsewhere");
     expect(await mismatch.json()).toMatchObject({ error: "redirect_uri_mismatch" });
   });

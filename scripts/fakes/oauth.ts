@@ -7,6 +7,7 @@
  *   POST /login/oauth/authorize     choose (or cancel): redirect to redirect_uri with code+state (or error+state)
  *   POST /login/oauth/access_token  code → access token (client id and secret required)
  *   GET  /api/user, /api/user/emails the account behind a bearer token
+ *   POST /_accounts                 tests only: add an account (JSON: githubId, login, name, email) to the chooser
  *
  * Run: node --import tsx scripts/fakes/oauth.ts  (FAKE_GITHUB_PORT, FAKE_GITHUB_CLIENT_ID, FAKE_GITHUB_CLIENT_SECRET)
  */
@@ -77,7 +78,7 @@ button:hover,button:focus{background:#e3eadf;outline:2px solid #5d7a55}
 
 /** Starts the stand-in on 127.0.0.1 (port 0 picks a free one). */
 export async function startFakeGitHub(options: FakeGitHubOptions): Promise<FakeGitHub> {
-  const accounts = options.accounts ?? DEMO_PEOPLE;
+  const accounts: DemoPerson[] = [...(options.accounts ?? DEMO_PEOPLE)];
   const codes = new Map<string, { login: string; redirectUri: string; expires: number }>();
   const tokens = new Map<string, string>();
 
@@ -170,6 +171,26 @@ export async function startFakeGitHub(options: FakeGitHubOptions): Promise<FakeG
         if (!account) return json(res, 401, { message: "Bad credentials" });
         if (url.pathname === "/api/user/emails") return json(res, 200, [{ email: account.email, primary: true, verified: true }]);
         return json(res, 200, { id: account.githubId, login: account.login, name: account.name, email: account.email, avatar_url: null });
+      }
+      if (url.pathname === "/_accounts" && req.method === "POST") {
+        // Tests make their own people; each is offered by the chooser like a demo account.
+        const chunks: Buffer[] = [];
+        for await (const chunk of req) chunks.push(chunk as Buffer);
+        const body = JSON.parse(Buffer.concat(chunks).toString("utf8")) as Partial<DemoPerson>;
+        if (typeof body.githubId !== "number" || typeof body.login !== "string" || !/^[A-Za-z0-9-]{1,39}$/.test(body.login))
+          return json(res, 400, { message: "githubId (number) and login (GitHub-style) are required" });
+        const account: DemoPerson = {
+          githubId: body.githubId,
+          login: body.login,
+          name: typeof body.name === "string" ? body.name : body.login,
+          email: typeof body.email === "string" ? body.email : `${body.login}@example.test`,
+          job: "test account",
+          role: null,
+        };
+        const at = accounts.findIndex((a) => a.login === account.login);
+        if (at >= 0) accounts[at] = account;
+        else accounts.push(account);
+        return json(res, 201, { login: account.login });
       }
       if (url.pathname === "/" && req.method === "GET")
         return send(res, 200, "Local GitHub sign-in stand-in for Skewsmith (development and tests only).\n", "text/plain; charset=utf-8");

@@ -13,7 +13,8 @@ const lines = [
   `  GitHub (${oauthUrl}) that asks which demo account you are; choose one:`,
   "",
   ...DEMO_PEOPLE.map(
-    (p) => `    ${p.name.padEnd(width)}  @${p.login.padEnd(18)} ${p.role ? `${p.role} of ${DEMO_TEAM.name}` : "in no team yet (try creating one)"}`,
+    (p) =>
+      `    ${p.name.padEnd(width)}  @${p.login.padEnd(18)} ${p.role ? `${p.role} of ${DEMO_TEAM.name}` : "in no team yet (try creating one)"}`,
   ),
   "",
   `  Mail the app sends is caught locally: ${appUrl}/dev/mailbox`,

@@ -17,6 +17,8 @@ declare module "vitest" {
   export interface ProvidedContext {
     appUrl: string;
     mailboxUrl: string;
+    githubUrl: string;
+    smtpUrl: string;
   }
 }
 
@@ -37,7 +39,10 @@ async function waitFor(url: string, child: ChildProcess, log: () => string): Pro
   const deadline = Date.now() + 30_000;
   while (Date.now() < deadline) {
     if (child.exitCode !== null) throw new Error(`the app exited (${child.exitCode}) before answering:\n${log()}`);
-    const ok = await fetch(url).then((r) => r.ok, () => false);
+    const ok = await fetch(url).then(
+      (r) => r.ok,
+      () => false,
+    );
     if (ok) return;
     await new Promise((r) => setTimeout(r, 200));
   }
@@ -93,6 +98,8 @@ export default async function setup(project: TestProject) {
   }
   project.provide("appUrl", appUrl);
   project.provide("mailboxUrl", mail.mailboxUrl);
+  project.provide("githubUrl", github.url);
+  project.provide("smtpUrl", mail.smtpUrl);
 
   return async () => {
     const exited = new Promise((resolve) => app.once("exit", resolve));

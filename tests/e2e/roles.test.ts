@@ -43,7 +43,8 @@ describe("a viewer", () => {
     await page.goto(`/teams/${demo.teamId}`);
     await page.getByTestId("members-table").waitFor();
     expect(await page.getByRole("combobox").count()).toBe(0);
-    for (const name of ["Create project", "Change", "Remove", "Save name"]) expect(await page.getByRole("button", { name }).count(), name).toBe(0);
+    for (const name of ["Create project", "Change", "Remove", "Save name"])
+      expect(await page.getByRole("button", { name }).count(), name).toBe(0);
 
     // Reading is allowed: the effect page and the document download.
     const [effect] = await listEffects(db, demo.projectId);
@@ -62,7 +63,9 @@ describe("a viewer", () => {
     const archive = await page.request.post(`/projects/${demo.projectId}`, { form: { intent: "archive-project" } });
     expect(archive.status()).toBe(403);
     const editor = await userByLogin(demoPerson("editor").login);
-    const promote = await page.request.post(`/teams/${demo.teamId}`, { form: { intent: "change-role", userId: editor.id, role: "viewer" } });
+    const promote = await page.request.post(`/teams/${demo.teamId}`, {
+      form: { intent: "change-role", userId: editor.id, role: "viewer" },
+    });
     expect(promote.status()).toBe(403);
     expect((await listEffects(db, demo.projectId)).map((e) => e.name)).toEqual(before);
     expect(await getRole(db, demo.teamId, editor.id)).toBe("editor");
@@ -109,7 +112,9 @@ describe("an owner", () => {
     const ownRow = page.getByTestId(`member-${owner.login}`);
     await ownRow.getByRole("combobox").selectOption("viewer");
     await ownRow.getByRole("button", { name: "Change" }).click();
-    await expect.poll(() => ownRow.getByRole("alert").textContent()).toBe("A team needs at least one owner: make someone else an owner first.");
+    await expect
+      .poll(() => ownRow.getByRole("alert").textContent())
+      .toBe("A team needs at least one owner: make someone else an owner first.");
     expect(await getRole(db, team.id, owner.id)).toBe("owner");
     await screenshot(page, "team-owner");
 

@@ -1,7 +1,9 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createDb } from "../../app/db/client.server.ts";
 import { demoPerson } from "../../app/demo/people.ts";
-import { appUrl, cookieHeader, launch, openPage, screenshot, signIn } from "./support.ts";
+import { makeTeam, makeUser } from "../factories.ts";
+import { appUrl, cookieHeader, launch, openPage, screenshot, signIn, signInAs } from "./support.ts";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -82,5 +84,21 @@ describe("sign-in", () => {
     await expect.poll(() => new URL(other.page.url()).pathname).toBe("/sign-in");
     await other.context.close();
     await context.close();
+  });
+});
+
+describe("a person a test made itself", () => {
+  it("signs in through the stand-in like a demo account and sees only their own team", async () => {
+    const db = createDb(process.env.DATABASE_URL!, { max: 1 });
+    try {
+      const user = await makeUser(db);
+      const team = await makeTeam(db, { owner: user });
+      const { context, page } = await signInAs(browser, user);
+      await expect.poll(() => page.getByRole("link", { name: new RegExp(team.name) }).count()).toBe(1);
+      expect(await page.getByRole("link", { name: /Tidewell Games/ }).count()).toBe(0);
+      await context.close();
+    } finally {
+      await db.$client.end();
+    }
   });
 });

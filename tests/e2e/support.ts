@@ -4,6 +4,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
 import { expect, inject } from "vitest";
+import type { User } from "../../app/db/schema.ts";
 import { DEMO_PEOPLE } from "../../app/demo/people.ts";
 
 export const CHROMIUM = process.env.SKEWSMITH_CHROMIUM ?? "/usr/bin/chromium";
@@ -32,22 +33,56 @@ export function launch(): Promise<Browser> {
 }
 
 /** A new browser context (its own cookies) with a page on the app. */
-export async function openPage(browser: Browser): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ baseURL: appUrl(), viewport: { width: 1280, height: 900 } });
+export async function openPage(
+  browser: Browser,
+  viewport: { width: number; height: number } = { width: 1280, height: 900 },
+): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({ baseURL: appUrl(), viewport });
   const page = await context.newPage();
   return { context, page };
 }
 
 /** Signs in as a demo account the way a person does: the app's button, then the stand-in's account chooser. */
-export async function signIn(browser: Browser, login: string): Promise<{ context: BrowserContext; page: Page }> {
+export async function signIn(
+  browser: Browser,
+  login: string,
+  options: { viewport?: { width: number; height: number } } = {},
+): Promise<{ context: BrowserContext; page: Page }> {
   const person = DEMO_PEOPLE.find((p) => p.login === login);
   if (!person) throw new Error(`no demo account ${login}`);
-  const { context, page } = await openPage(browser);
+  return chooseAccount(browser, login, options);
+}
+
+/**
+ * Signs in as a person the test made itself (tests/factories.ts makeUser): the stand-in learns the account first,
+ * then the sign-in goes as for a demo account. Tests that change things use their own people and teams, so the
+ * suite can run twice on one database and in any order.
+ */
+export async function signInAs(
+  browser: Browser,
+  user: Pick<User, "githubId" | "login" | "name" | "email">,
+  options: { viewport?: { width: number; height: number } } = {},
+): Promise<{ context: BrowserContext; page: Page }> {
+  const added = await fetch(`${inject("githubUrl")}/_accounts`, {
+    method: "POST",
+    headers: { "Content-Type": "application/json" },
+    body: JSON.stringify({ githubId: user.githubId, login: user.login, name: user.name, email: user.email }),
+  });
+  if (added.status !== 201) throw new Error(`the GitHub stand-in refused the test account ${user.login}: ${await added.text()}`);
+  return chooseAccount(browser, user.login, options);
+}
+
+async function chooseAccount(
+  browser: Browser,
+  login: string,
+  options: { viewport?: { width: number; height: number } },
+): Promise<{ context: BrowserContext; page: Page }> {
+  const { context, page } = await openPage(browser, options.viewport);
   await page.goto("/");
   await expect.poll(() => new URL(page.url()).pathname).toBe("/sign-in");
   await page.getByRole("button", { name: "Sign in with GitHub" }).click();
   await page.getByRole("heading", { name: /Sign in to Skewsmith as/ }).waitFor();
-  await page.getByRole("button", { name: new RegExp(`@${login}`) }).click();
+  await page.getByRole("button", { name: new RegExp(`@${login}(\\s|$)`) }).click();
   await page.waitForURL(`${appUrl()}/`);
   await expect.poll(() => page.getByTestId("signed-in-as").textContent()).toContain(`@${login}`);
   return { context, page };

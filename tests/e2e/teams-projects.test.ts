@@ -46,9 +46,9 @@ describe("a person with no team", () => {
     await page.getByLabel("Bits", { exact: true }).selectOption("8");
     await page.getByLabel("Fraction bits").fill("8");
     await page.getByRole("button", { name: "Create target profile" }).click();
-    await expect.poll(() => page.getByRole("alert").first().textContent()).toBe(
-      "Fraction bits: 8 is not allowed; allowed a whole number from 0 to 7 (below bits = 8)",
-    );
+    await expect
+      .poll(() => page.getByRole("alert").first().textContent())
+      .toBe("Fraction bits: 8 is not allowed; allowed a whole number from 0 to 7 (below bits = 8)");
     await page.getByLabel("Fraction bits").fill("7");
     await page.getByRole("button", { name: "Create target profile" }).click();
     await expect.poll(() => page.getByTestId("profiles-table").textContent()).toMatch(/Wide screen.*256 × 224.*Q1\.7/);
@@ -101,7 +101,12 @@ describe("a person with no team", () => {
     await page.waitForURL(/\/effects\/[0-9a-f-]{36}$/);
     await expect.poll(() => page.getByTestId("frame-count").textContent()).toBe("64");
     const document = JSON.parse((await page.getByTestId("effect-document").textContent())!);
-    expect(document).toMatchObject({ format: "skewsmith.effect/1", canvas: { width: 64, height: 64 }, pivot: { x: 32, y: 32 }, columnGroup: 1 });
+    expect(document).toMatchObject({
+      format: "skewsmith.effect/1",
+      canvas: { width: 64, height: 64 },
+      pivot: { x: 32, y: 32 },
+      columnGroup: 1,
+    });
     await screenshot(page, "effect-newcomer");
 
     // Describe, archive and restore the project.

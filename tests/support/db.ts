@@ -10,7 +10,9 @@ export const MIGRATIONS = path.resolve(path.dirname(fileURLToPath(import.meta.ur
 export function testDatabaseUrl(): string {
   const url = process.env.DATABASE_URL;
   if (!url)
-    throw new Error("DATABASE_URL is not set. Run the tests with scripts/test: it starts PostgreSQL and creates a fresh database for the run.");
+    throw new Error(
+      "DATABASE_URL is not set. Run the tests with scripts/test: it starts PostgreSQL and creates a fresh database for the run.",
+    );
   return url;
 }
 

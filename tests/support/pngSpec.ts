@@ -46,7 +46,8 @@ export function readIndexed(file: Uint8Array): { width: number; height: number; 
   const width = ihdr.readUInt32BE(0);
   const height = ihdr.readUInt32BE(4);
   const [depth, colourType, , , interlace] = [ihdr[8], ihdr[9], ihdr[10], ihdr[11], ihdr[12]];
-  if (depth !== 8 || colourType !== 3 || interlace !== 0) throw new Error(`unsupported: depth ${depth}, colour type ${colourType}, interlace ${interlace}`);
+  if (depth !== 8 || colourType !== 3 || interlace !== 0)
+    throw new Error(`unsupported: depth ${depth}, colour type ${colourType}, interlace ${interlace}`);
   const plteData = chunks.find((c) => c.type === "PLTE")!.data;
   const plte: number[][] = [];
   for (let i = 0; i < plteData.length; i += 3) plte.push([plteData[i], plteData[i + 1], plteData[i + 2]]);
@@ -82,7 +83,14 @@ function chunk(type: string, data: Buffer): Buffer {
 }
 
 /** Writes an indexed PNG of 1, 2, 4 or 8 bits per pixel, filter type 0 on every row (§9.2). */
-export function writeIndexed(width: number, height: number, depth: 1 | 2 | 4 | 8, indices: number[], plte: number[][], trns?: number[]): Buffer {
+export function writeIndexed(
+  width: number,
+  height: number,
+  depth: 1 | 2 | 4 | 8,
+  indices: number[],
+  plte: number[][],
+  trns?: number[],
+): Buffer {
   const ihdr = Buffer.alloc(13);
   ihdr.writeUInt32BE(width, 0);
   ihdr.writeUInt32BE(height, 4);

@@ -17,6 +17,7 @@ import os from "node:os";
 import v8 from "node:v8";
 import vm from "node:vm";
 import type { Sharp } from "sharp";
+import type sharpLibrary from "sharp";
 import { compileFrame } from "../src/compileTables.ts";
 import { parseEffect, type Effect } from "../src/effect.ts";
 import { Renderer } from "../src/render.ts";
@@ -80,7 +81,8 @@ function naiveInverse(src: Uint32Array, dst: Uint32Array, degrees: number): void
 }
 
 /** The library, loaded only after the JS cases are measured (see the note on phases below). */
-let sharp: typeof import("sharp") | undefined;
+// eslint-disable-next-line prefer-const -- assigned once, later: after the JS cases are measured (see below)
+let sharp: typeof sharpLibrary | undefined;
 
 /** (c): raw RGBA in, nearest-neighbour affine turn by θ, raw RGBA out; the output is the turned frame's bounding box. */
 async function library(degrees: number): Promise<{ data: Buffer; width: number; height: number }> {
@@ -202,13 +204,19 @@ const median = (xs: readonly number[]) => {
 
 const floorMs = median(floor.times);
 const cpu = os.cpus();
-console.log(`Render benchmark: ${W}×${H} RGBA frame (${N} pixels, 32-bit words), ${ROUNDS} interleaved rounds after ${WARM_UP} warm-up, medians;`);
+console.log(
+  `Render benchmark: ${W}×${H} RGBA frame (${N} pixels, 32-bit words), ${ROUNDS} interleaved rounds after ${WARM_UP} warm-up, medians;`,
+);
 console.log("The library is loaded and measured after the JS cases (with its native code loaded the gather ran up to 1.6 times slower).");
-console.log(`Node ${process.version}, ${cpu.length} × ${cpu[0]?.model ?? "unknown CPU"}, load average ${os.loadavg()[0].toFixed(2)} at the end.`);
+console.log(
+  `Node ${process.version}, ${cpu.length} × ${cpu[0]?.model ?? "unknown CPU"}, load average ${os.loadavg()[0].toFixed(2)} at the end.`,
+);
 console.log("(a) TypedArray.prototype.set of the whole frame, three times, into planes allocated once.");
 console.log("(b) per destination pixel: turn the centre back by θ about the frame's centre, take the source pixel under it (floor),");
 console.log("    background when outside; plain JS, output plane allocated once.");
-console.log(`(c) sharp ${sharp.versions.sharp} / libvips ${sharp.versions.vips}, concurrency 1, cache off. Timed: the whole pipeline, from the raw RGBA`);
+console.log(
+  `(c) sharp ${sharp.versions.sharp} / libvips ${sharp.versions.vips}, concurrency 1, cache off. Timed: the whole pipeline, from the raw RGBA`,
+);
 console.log("    input buffer through .affine([[cos, −sin], [sin, cos]], nearest, transparent background) to the raw output Buffer");
 console.log(`    it allocates. Its output is the turned frame's whole bounding box (size in the case name), not ${W}×${H}.`);
 console.log("Three-shear render: Renderer.render on the renderer's own planes: pass 1 as block copies, passes 2 and 3 fused (the column");
@@ -217,7 +225,9 @@ console.log("render up to pass 2 less that of pass 1; pass 3: Renderer.secondRow
 console.log("Pixels kept: distinct source pixels in the output. The three-shear wraps at the edges (spec §5), so it keeps all;");
 console.log("(b) also loses the corners that turn off the frame, so its share of the pixels whose turned centres land on it is given too.");
 console.log("ms: median; best ms: the fastest round (this machine is shared, so the spread shows the noise); ratios use medians.");
-console.log("÷ floor: this case's time over the floor's. (b) ÷ and (c) ÷: that reference's time over this case's (above 1: this is faster).");
+console.log(
+  "÷ floor: this case's time over the floor's. (b) ÷ and (c) ÷: that reference's time over this case's (above 1: this is faster).",
+);
 console.log("");
 
 const best = (xs: readonly number[]) => Math.min(...xs).toFixed(2);
@@ -231,12 +241,37 @@ for (const g of groups) {
   rows.push([`${g.degrees}° pass 2 (columns)`, (oneTwo - one).toFixed(2), "", ((oneTwo - one) / floorMs).toFixed(2), "", "", ""]);
   rows.push([g.passes[2].name, three.toFixed(2), best(g.passes[2].times), (three / floorMs).toFixed(2), "", "", ""]);
   const wholeMs = median(g.whole.times);
-  rows.push([g.whole.name, wholeMs.toFixed(2), best(g.whole.times), (wholeMs / floorMs).toFixed(2), (naiveMs / wholeMs).toFixed(2), (libMs / wholeMs).toFixed(2), g.whole.kept ?? ""]);
-  rows.push([g.naive.name, naiveMs.toFixed(2), best(g.naive.times), (naiveMs / floorMs).toFixed(2), "1.00", (libMs / naiveMs).toFixed(2), g.naive.kept ?? ""]);
-  rows.push([g.lib.name, libMs.toFixed(2), best(g.lib.times), (libMs / floorMs).toFixed(2), (naiveMs / libMs).toFixed(2), "1.00", g.lib.kept ?? ""]);
+  rows.push([
+    g.whole.name,
+    wholeMs.toFixed(2),
+    best(g.whole.times),
+    (wholeMs / floorMs).toFixed(2),
+    (naiveMs / wholeMs).toFixed(2),
+    (libMs / wholeMs).toFixed(2),
+    g.whole.kept ?? "",
+  ]);
+  rows.push([
+    g.naive.name,
+    naiveMs.toFixed(2),
+    best(g.naive.times),
+    (naiveMs / floorMs).toFixed(2),
+    "1.00",
+    (libMs / naiveMs).toFixed(2),
+    g.naive.kept ?? "",
+  ]);
+  rows.push([
+    g.lib.name,
+    libMs.toFixed(2),
+    best(g.lib.times),
+    (libMs / floorMs).toFixed(2),
+    (naiveMs / libMs).toFixed(2),
+    "1.00",
+    g.lib.kept ?? "",
+  ]);
 }
 const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-const line = (r: readonly string[]) => r.map((cell, i) => (i === 0 || i === r.length - 1 ? cell.padEnd(widths[i]) : cell.padStart(widths[i]))).join("  ");
+const line = (r: readonly string[]) =>
+  r.map((cell, i) => (i === 0 || i === r.length - 1 ? cell.padEnd(widths[i]) : cell.padStart(widths[i]))).join("  ");
 console.log(line(header));
 console.log(widths.map((w) => "-".repeat(w)).join("  "));
 for (const r of rows) console.log(line(r).trimEnd());

@@ -94,9 +94,19 @@ const [floorSmall, shiftsSmall, floorLarge, shiftsLarge] = measure(
 );
 rows.push(
   ["320×240 tables floor (int32 writes)", floorSmall.toFixed(1), "1.00", `${smallEntries.length} entries`],
-  ["320×240 tables (compileShifts)", shiftsSmall.toFixed(1), (shiftsSmall / floorSmall).toFixed(2), `${((shiftsSmall * 1e6) / smallEntries.length).toFixed(1)} ns per table entry delivered`],
+  [
+    "320×240 tables (compileShifts)",
+    shiftsSmall.toFixed(1),
+    (shiftsSmall / floorSmall).toFixed(2),
+    `${((shiftsSmall * 1e6) / smallEntries.length).toFixed(1)} ns per table entry delivered`,
+  ],
   ["1920×1080 tables floor (int32 writes)", floorLarge.toFixed(1), "1.00", `${largeEntries.length} entries`],
-  ["1920×1080 tables (compileShifts)", shiftsLarge.toFixed(1), (shiftsLarge / floorLarge).toFixed(2), `${((shiftsLarge * 1e6) / largeEntries.length).toFixed(1)} ns per table entry delivered`],
+  [
+    "1920×1080 tables (compileShifts)",
+    shiftsLarge.toFixed(1),
+    (shiftsLarge / floorLarge).toFixed(2),
+    `${((shiftsLarge * 1e6) / largeEntries.length).toFixed(1)} ns per table entry delivered`,
+  ],
 );
 
 // Tables with diagnostics on 320×240: 315 million pixel checks per run.
@@ -105,7 +115,12 @@ const diagRounds = Math.max(1, Math.ceil(ROUNDS / 2));
 const [checksSmall, tablesSmall] = measure([() => checksFloor(FRAMES, 320, 240), () => compileTables(small)], diagRounds, 1);
 rows.push(
   ["320×240 diagnostics floor (float work)", checksSmall.toFixed(0), "1.00", `${smallChecks} checks`],
-  ["320×240 tables + diagnostics (compileTables)", tablesSmall.toFixed(0), (tablesSmall / checksSmall).toFixed(2), `${((tablesSmall * 1e6) / smallChecks).toFixed(2)} ns per check`],
+  [
+    "320×240 tables + diagnostics (compileTables)",
+    tablesSmall.toFixed(0),
+    (tablesSmall / checksSmall).toFixed(2),
+    `${((tablesSmall * 1e6) / smallChecks).toFixed(2)} ns per check`,
+  ],
 );
 
 // Tables with diagnostics on 1920×1080: 8.5 billion pixel checks, so one run; its floor is the 320×240 one per check.
@@ -114,18 +129,30 @@ const [tablesLarge] = measure([() => compileTables(large)], 1, 0);
 const checksLarge = (checksSmall * largeChecks) / smallChecks;
 rows.push(
   ["1920×1080 diagnostics floor (scaled)", checksLarge.toFixed(0), "1.00", `${largeChecks} checks at the 320×240 floor's time per check`],
-  ["1920×1080 tables + diagnostics (compileTables)", tablesLarge.toFixed(0), (tablesLarge / checksLarge).toFixed(2), `${((tablesLarge * 1e6) / largeChecks).toFixed(2)} ns per check, 1 run`],
+  [
+    "1920×1080 tables + diagnostics (compileTables)",
+    tablesLarge.toFixed(0),
+    (tablesLarge / checksLarge).toFixed(2),
+    `${((tablesLarge * 1e6) / largeChecks).toFixed(2)} ns per check, 1 run`,
+  ],
 );
 
 const cpu = os.cpus();
-console.log(`Tables benchmark: ${FRAMES}-frame sweep 0° → 360°, pivot at the centre, default fixed point (Q8.8), medians of ${ROUNDS} interleaved rounds`);
-console.log(`(diagnostics on 320×240: ${diagRounds} rounds; on 1920×1080: one run). Node ${process.version}, ${cpu.length} × ${cpu[0]?.model ?? "unknown CPU"},`);
-console.log(`load average ${os.loadavg()[0].toFixed(2)} at the end. ÷ floor: the case's time over the floor just above it, measured in this run.`);
+console.log(
+  `Tables benchmark: ${FRAMES}-frame sweep 0° → 360°, pivot at the centre, default fixed point (Q8.8), medians of ${ROUNDS} interleaved rounds`,
+);
+console.log(
+  `(diagnostics on 320×240: ${diagRounds} rounds; on 1920×1080: one run). Node ${process.version}, ${cpu.length} × ${cpu[0]?.model ?? "unknown CPU"},`,
+);
+console.log(
+  `load average ${os.loadavg()[0].toFixed(2)} at the end. ÷ floor: the case's time over the floor just above it, measured in this run.`,
+);
 console.log("Issue targets, for reference: tables alone on 320×240 under 50 ms; with diagnostics under 1.5 s.");
 console.log("");
 const header = ["case", "ms", "÷ floor", "work"];
 const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-const line = (r: readonly string[]) => r.map((cell, i) => (i === 0 || i === 3 ? cell.padEnd(widths[i]) : cell.padStart(widths[i]))).join("  ");
+const line = (r: readonly string[]) =>
+  r.map((cell, i) => (i === 0 || i === 3 ? cell.padEnd(widths[i]) : cell.padStart(widths[i]))).join("  ");
 console.log(line(header));
 console.log(widths.map((w) => "-".repeat(w)).join("  "));
 for (const r of rows) console.log(line(r).trimEnd());

@@ -64,9 +64,7 @@ export interface EffectIssue {
 export class EffectError extends Error {
   readonly issues: readonly EffectIssue[];
   constructor(issues: readonly EffectIssue[]) {
-    super(
-      `invalid effect document:\n${issues.map((i) => `  ${i.path || "(document)"}: ${i.message}`).join("\n")}`,
-    );
+    super(`invalid effect document:\n${issues.map((i) => `  ${i.path || "(document)"}: ${i.message}`).join("\n")}`);
     this.name = "EffectError";
     this.issues = issues;
   }
@@ -199,22 +197,34 @@ function crossFieldIssues(input: unknown): EffectIssue[] {
     const p = (pivot.data.pivot as Record<"x" | "y", number>)[axis];
     const size = sizes[axis];
     if (!Number.isInteger(p / LIMITS.pivotStep) || p < 0 || p > size)
-      issues.push({ path: `pivot.${axis}`, message: `${show(p)} is not allowed; allowed a multiple of ${LIMITS.pivotStep} from 0 to ${size}` });
+      issues.push({
+        path: `pivot.${axis}`,
+        message: `${show(p)} is not allowed; allowed a multiple of ${LIMITS.pivotStep} from 0 to ${size}`,
+      });
   }
   const fixed = fixedOnly.safeParse(input);
   if (fixed.success) {
     const { bits, fraction } = fixed.data.fixedPoint;
     if (fraction >= bits)
-      issues.push({ path: "fixedPoint.fraction", message: `${fraction} is not allowed; allowed a whole number from 0 to ${bits - 1} (below bits = ${bits})` });
+      issues.push({
+        path: "fixedPoint.fraction",
+        message: `${fraction} is not allowed; allowed a whole number from 0 to ${bits - 1} (below bits = ${bits})`,
+      });
   }
   const group = groupOnly.safeParse(input);
   if (group.success && width.success && group.data.columnGroup > width.data.canvas.width)
-    issues.push({ path: "columnGroup", message: `${group.data.columnGroup} is not allowed; allowed a whole number from 1 to ${width.data.canvas.width} (the canvas width)` });
+    issues.push({
+      path: "columnGroup",
+      message: `${group.data.columnGroup} is not allowed; allowed a whole number from 1 to ${width.data.canvas.width} (the canvas width)`,
+    });
   return issues;
 }
 
 function pathText(path: readonly PropertyKey[]): string {
-  return path.reduce<string>((text, key) => (typeof key === "number" ? `${text}[${key}]` : text ? `${text}.${String(key)}` : String(key)), "");
+  return path.reduce<string>(
+    (text, key) => (typeof key === "number" ? `${text}[${key}]` : text ? `${text}.${String(key)}` : String(key)),
+    "",
+  );
 }
 
 /** Flattens zod issues, opening union failures so the message names the deepest field at fault. */

@@ -40,7 +40,10 @@ export function decodePng(bytes: Uint8Array): Image {
     const palette: Rgba[] = png.palette.map((c) => [c[0], c[1], c[2], c.length > 3 ? c[3] : 255] as const);
     const data = unpack(png.data, width, height, depth);
     for (let i = 0; i < data.length; i++)
-      if (data[i] >= palette.length) throw new PngError(`pixel ${i % width},${Math.floor(i / width)} uses palette index ${data[i]}, but the palette has ${palette.length} colours`);
+      if (data[i] >= palette.length)
+        throw new PngError(
+          `pixel ${i % width},${Math.floor(i / width)} uses palette index ${data[i]}, but the palette has ${palette.length} colours`,
+        );
     return { kind: "indexed", width, height, data, palette };
   }
   const n = width * height;
@@ -106,7 +109,7 @@ function fixTransparency(png: Uint8Array, palette: readonly Rgba[]): Uint8Array 
     trns.set(body, 4);
     new DataView(trns.buffer).setUint32(8 + last + 1, crc32(body));
   }
-  for (let at = 8; at < png.length; ) {
+  for (let at = 8; at < png.length;) {
     const length = view.getUint32(at);
     const type = String.fromCharCode(...png.subarray(at + 4, at + 8));
     const chunk = png.subarray(at, at + 12 + length);
@@ -128,11 +131,12 @@ function fixTransparency(png: Uint8Array, palette: readonly Rgba[]): Uint8Array 
 export function encodePng(image: Image): Uint8Array {
   if (image.kind === "rgba") return encode({ width: image.width, height: image.height, data: image.data, channels: 4, depth: 8 });
   const img: IndexedImage = image;
-  if (img.palette.length < 1 || img.palette.length > 256)
-    throw new RangeError(`palette: ${img.palette.length} colours; allowed 1 to 256`);
+  if (img.palette.length < 1 || img.palette.length > 256) throw new RangeError(`palette: ${img.palette.length} colours; allowed 1 to 256`);
   for (let i = 0; i < img.data.length; i++)
     if (img.data[i] >= img.palette.length)
-      throw new RangeError(`pixel ${i % img.width},${Math.floor(i / img.width)}: palette index ${img.data[i]} is not allowed; allowed 0 to ${img.palette.length - 1} (the palette has ${img.palette.length} colours)`);
+      throw new RangeError(
+        `pixel ${i % img.width},${Math.floor(i / img.width)}: palette index ${img.data[i]} is not allowed; allowed 0 to ${img.palette.length - 1} (the palette has ${img.palette.length} colours)`,
+      );
   const palette = img.palette.map((c) => [c[0], c[1], c[2], c[3]]);
   const png = encode({ width: img.width, height: img.height, data: img.data, channels: 1, depth: 8, palette });
   return fixTransparency(png, img.palette);

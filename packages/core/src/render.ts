@@ -195,7 +195,7 @@ export class Renderer<T extends PixelData> {
     }
     // The renderer's own gather, specialised to its planes, or one over the planes given.
     const run = src === this.a && dst === this.b ? this.ownGather : gatherFor(src, dst, colOff);
-    for (let c0 = 0; c0 < W; ) {
+    for (let c0 = 0; c0 < W;) {
       // Grow the strip while it stays narrow enough and its shifts span few enough source rows.
       let tMin = colShift[c0];
       let tMax = tMin;
@@ -286,7 +286,7 @@ export class Renderer<T extends PixelData> {
     if (clip) {
       for (let c = a; c < b; c++) {
         const j = o + colOff[c];
-        dst[d + c] = (j >>> 0) < N ? src[j] : 0;
+        dst[d + c] = j >>> 0 < N ? src[j] : 0;
       }
     } else {
       for (let c = a; c < b; c++) {

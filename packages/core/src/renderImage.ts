@@ -10,8 +10,7 @@ export function renderImage(image: Image, frame: FrameShifts, geometry: RenderGe
   if (image.width !== width || image.height !== height)
     throw new RangeError(`image: ${image.width}×${image.height} pixels; must equal the canvas, ${width}×${height}`);
   const plane = imagePlane(image);
-  const renderer =
-    plane instanceof Uint8Array ? new Renderer(width, height, Uint8Array) : new Renderer(width, height, Uint32Array);
+  const renderer = plane instanceof Uint8Array ? new Renderer(width, height, Uint8Array) : new Renderer(width, height, Uint32Array);
   const out = (renderer as Renderer<typeof plane>).render(plane, frame, geometry, pass);
   return imageFromPlane(image, out);
 }

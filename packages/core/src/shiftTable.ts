@@ -14,7 +14,9 @@ export interface ShiftRule {
 function int32(s: number, table: "h" | "v", i: number): number {
   const { min, max } = ELEMENT_RANGES.int32;
   if (s < min || s > max)
-    throw new RangeError(`shift tables: ${table}[${i}] = ${s} does not fit int32 (allowed ${min} to ${max}); use more fraction bits or halfTurn "flip"`);
+    throw new RangeError(
+      `shift tables: ${table}[${i}] = ${s} does not fit int32 (allowed ${min} to ${max}); use more fraction bits or halfTurn "flip"`,
+    );
   return s;
 }
 

@@ -46,23 +46,26 @@ describe("three shears make a turn (Paeth 1986, multiplied with mathjs)", () => 
     { bits: 32, fraction: 24 },
     { bits: 16, fraction: 12 },
     { bits: 16, fraction: 8 },
-  ] as const)("the core's fixed-point coefficients ($bits bits, $fraction fraction) multiply to the same turn within their quantisation", (fixedPoint) => {
-    // Each coefficient is off by at most 2^−(F+1); the product's entries are sums of at most three such terms times |α|, |β| ≤ 1.
-    const tolerance = 4 * 2 ** -(fixedPoint.fraction + 1);
-    for (let degrees = -90; degrees <= 90; degrees += 7.5) {
-      const k = coefficients(degrees, fixedPoint);
-      const scale = 2 ** fixedPoint.fraction;
-      const X = math.matrix([
-        [1, k.alpha / scale],
-        [0, 1],
-      ]);
-      const Y = math.matrix([
-        [1, 0],
-        [k.beta / scale, 1],
-      ]);
-      expectMatrixClose(math.multiply(math.multiply(X, Y), X), rotation((degrees * Math.PI) / 180), tolerance, `${degrees}°`);
-    }
-  });
+  ] as const)(
+    "the core's fixed-point coefficients ($bits bits, $fraction fraction) multiply to the same turn within their quantisation",
+    (fixedPoint) => {
+      // Each coefficient is off by at most 2^−(F+1); the product's entries are sums of at most three such terms times |α|, |β| ≤ 1.
+      const tolerance = 4 * 2 ** -(fixedPoint.fraction + 1);
+      for (let degrees = -90; degrees <= 90; degrees += 7.5) {
+        const k = coefficients(degrees, fixedPoint);
+        const scale = 2 ** fixedPoint.fraction;
+        const X = math.matrix([
+          [1, k.alpha / scale],
+          [0, 1],
+        ]);
+        const Y = math.matrix([
+          [1, 0],
+          [k.beta / scale, 1],
+        ]);
+        expectMatrixClose(math.multiply(math.multiply(X, Y), X), rotation((degrees * Math.PI) / 180), tolerance, `${degrees}°`);
+      }
+    },
+  );
 });
 
 describe("coefficients: kα = sat(nearest(−tan(θr/2)·2^F)), kβ = sat(nearest(sin θr·2^F)) (spec §3)", () => {

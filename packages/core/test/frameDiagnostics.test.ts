@@ -76,7 +76,12 @@ describe("frameDiagnostics (spec §6)", () => {
     // Pass errors e1, e2, e3 (each ≤ 1/2 px from rounding) add up to an x error e1·(1 + αβ) + α·e2 + e3 with
     // 1 + αβ = cos θr, and a y error β·e1 + e2. Coefficient quantisation adds |coordinate|·2^−(F+1) per pass: with F = 12
     // and content within 15 px of the pivot (under 25 px in any pass) that is under 0.01 px each.
-    const e = parseEffect({ canvas: { width: 48, height: 48 }, pivot: { x: 24, y: 24 }, angles: { list: [0] }, fixedPoint: { bits: 16, fraction: 12 } });
+    const e = parseEffect({
+      canvas: { width: 48, height: 48 },
+      pivot: { x: 24, y: 24 },
+      angles: { list: [0] },
+      fixedPoint: { bits: 16, fraction: 12 },
+    });
     const mask = new Uint8Array(48 * 48);
     for (let r = 14; r < 34; r++) for (let c = 14; c < 34; c++) mask[r * 48 + c] = 1;
     for (let degrees = -180; degrees < 180; degrees += 7) {
@@ -113,7 +118,12 @@ describe("frameDiagnostics (spec §6)", () => {
 
   it("an empty mask measures nothing: all zero", () => {
     const e = parseEffect({ canvas: { width: 5, height: 5 }, pivot: { x: 2.5, y: 2.5 }, angles: { list: [0] } });
-    expect(frameDiagnostics(compileFrame(e, 0, 45), e, new Uint8Array(25))).toEqual({ maxErrorPx: 0, meanErrorPx: 0, wrapped: 0, clipped: 0 });
+    expect(frameDiagnostics(compileFrame(e, 0, 45), e, new Uint8Array(25))).toEqual({
+      maxErrorPx: 0,
+      meanErrorPx: 0,
+      wrapped: 0,
+      clipped: 0,
+    });
   });
 
   it("rejects a mask of the wrong size, naming both sizes", () => {

@@ -55,7 +55,12 @@ describe("placeImage: a sprite into a canvas", () => {
   const sprite: IndexedImage = { kind: "indexed", width: 2, height: 2, data: Uint8Array.from([1, 2, 2, 1]), palette };
 
   it("puts the sprite's top-left corner at (x, y), background elsewhere, palette kept", () => {
-    expect(placeImage(sprite, 4, 3, 1, 1)).toEqual({ ...sprite, width: 4, height: 3, data: Uint8Array.from([0, 0, 0, 0, 0, 1, 2, 0, 0, 2, 1, 0]) });
+    expect(placeImage(sprite, 4, 3, 1, 1)).toEqual({
+      ...sprite,
+      width: 4,
+      height: 3,
+      data: Uint8Array.from([0, 0, 0, 0, 0, 1, 2, 0, 0, 2, 1, 0]),
+    });
   });
 
   it("cuts what falls outside the canvas, on every side", () => {

@@ -146,7 +146,12 @@ describe("the public API (src/index.ts)", () => {
   });
 
   it("exports exactly these types", () => {
-    const types = [...source.matchAll(/^export type \{([^}]*)\}/gm)].flatMap((m) => m[1].split(",").map((s) => s.trim()).filter(Boolean));
+    const types = [...source.matchAll(/^export type \{([^}]*)\}/gm)].flatMap((m) =>
+      m[1]
+        .split(",")
+        .map((s) => s.trim())
+        .filter(Boolean),
+    );
     expect(types.sort()).toEqual([...CORE_TYPES, ...EXPORTER_TYPES].sort());
   });
 

@@ -40,7 +40,13 @@ describe("indexed PNG round trip", () => {
 
   it("writes no tRNS when every palette entry is opaque, and keeps a full 256-entry palette", async () => {
     const palette: Rgba[] = Array.from({ length: 256 }, (_, i) => [i, 255 - i, (i * 3) % 256, 255]);
-    const image: IndexedImage = { kind: "indexed", width: 16, height: 16, data: Uint8Array.from({ length: 256 }, (_, i) => 255 - i), palette };
+    const image: IndexedImage = {
+      kind: "indexed",
+      width: 16,
+      height: 16,
+      data: Uint8Array.from({ length: 256 }, (_, i) => 255 - i),
+      palette,
+    };
     const png = encodePng(image);
     expect(pngChunks(png).map((c) => c.type)).not.toContain("tRNS");
     expect(decodePng(png)).toEqual(image);
@@ -58,12 +64,27 @@ describe("indexed PNG round trip", () => {
   });
 
   it("refuses to write a pixel whose index is beyond the palette, naming the pixel and the allowed indices", () => {
-    const image: IndexedImage = { kind: "indexed", width: 2, height: 1, data: Uint8Array.from([0, 5]), palette: [[0, 0, 0, 255], [1, 1, 1, 255]] };
+    const image: IndexedImage = {
+      kind: "indexed",
+      width: 2,
+      height: 1,
+      data: Uint8Array.from([0, 5]),
+      palette: [
+        [0, 0, 0, 255],
+        [1, 1, 1, 255],
+      ],
+    };
     expect(() => encodePng(image)).toThrow(/pixel 1,0: palette index 5 .*0 to 1/);
   });
 
   it("refuses a palette of more than 256 colours, naming the count and the range", () => {
-    const image: IndexedImage = { kind: "indexed", width: 1, height: 1, data: new Uint8Array(1), palette: new Array(257).fill([0, 0, 0, 255]) };
+    const image: IndexedImage = {
+      kind: "indexed",
+      width: 1,
+      height: 1,
+      data: new Uint8Array(1),
+      palette: new Array(257).fill([0, 0, 0, 255]),
+    };
     expect(() => encodePng(image)).toThrow(/257.*1 to 256/);
   });
 });
@@ -85,7 +106,17 @@ describe("palette PNGs of every depth read as indexed images (PNG files written 
   });
 
   it("an index beyond the palette is an error naming the pixel and the palette size", () => {
-    const png = pngBytes({ width: 2, height: 1, depth: 8, colorType: 3, samples: [0, 3], palette: [[0, 0, 0], [9, 9, 9]] });
+    const png = pngBytes({
+      width: 2,
+      height: 1,
+      depth: 8,
+      colorType: 3,
+      samples: [0, 3],
+      palette: [
+        [0, 0, 0],
+        [9, 9, 9],
+      ],
+    });
     expect(() => decodePng(png)).toThrow(PngError);
     expect(() => decodePng(png)).toThrow(/1,0.*index 3.*2 colours/);
   });

@@ -133,7 +133,7 @@ describe("clip mode loses exactly the pixels it counts (spec §5, §6)", () => {
 describe("a frame at θ and at −θ mirror each other about a centred pivot", () => {
   // Mirroring x → −x turns R(θ) into R(−θ) and each shear X(α), Y(β) into X(−α), Y(−β); with symmetric rounding the
   // tables follow exactly (derived by hand from spec §1, §4). Groups must tile the width for their centres to mirror.
-  const mirrorColumns = (a: Uint32Array, W: number, H: number) => Uint32Array.from(a, (_, i) => a[Math.floor(i / W) * W + (W - 1 - (i % W))]);
+  const mirrorColumns = (a: Uint32Array, W: number) => Uint32Array.from(a, (_, i) => a[Math.floor(i / W) * W + (W - 1 - (i % W))]);
   const mirrorRows = (a: Uint32Array, W: number, H: number) => Uint32Array.from(a, (_, i) => a[(H - 1 - Math.floor(i / W)) * W + (i % W)]);
 
   it.each([

@@ -140,30 +140,33 @@ describe("agreement with an ordinary nearest-neighbour rotation (sharp/libvips a
     }
   });
 
-  it.each([7, 30, 45, 60, 100, 135, -20, -75, -150, 171])("at %i° every pixel lands within maxErrorPx + √2/2 of where the library puts it", async (degrees) => {
-    const frame = compileFrame(effect, 0, degrees);
-    const diag = frameDiagnostics(frame, effect, mask);
-    expect(diag.wrapped).toBe(0);
-    const out = renderImage(sprite, frame, effect) as RgbaImage;
-    const ours = new Map<number, { x: number; y: number }>();
-    for (let i = 0; i < W * W; i++) {
-      const d = out.data;
-      if (d[4 * i + 3]) ours.set((d[4 * i] << 16) | (d[4 * i + 1] << 8) | d[4 * i + 2], { x: i % W, y: Math.floor(i / W) });
-    }
-    expect(ours.size).toBe(colourOf.size); // nothing lost: a permutation
-    const theirs = await sharpTurn(sprite, degrees, pc, pr);
-    let compared = 0;
-    for (const [colour, { c, r }] of colourOf) {
-      const ideal = idealCentre(c, r, degrees, effect.pivot);
-      const mine = ours.get(colour)!;
-      for (const p of theirs.get(colour) ?? []) {
-        // The library's own rounding: its pixel centre lies within half a pixel on each axis of the ideal point.
-        expect(Math.hypot(p.x + 0.5 - ideal.x, p.y + 0.5 - ideal.y), "library vs ideal").toBeLessThanOrEqual(Math.SQRT1_2 + 1e-9);
-        expect(Math.hypot(p.x - mine.x, p.y - mine.y), `pixel (${c}, ${r})`).toBeLessThanOrEqual(diag.maxErrorPx + Math.SQRT1_2 + 1e-9);
-        compared++;
+  it.each([7, 30, 45, 60, 100, 135, -20, -75, -150, 171])(
+    "at %i° every pixel lands within maxErrorPx + √2/2 of where the library puts it",
+    async (degrees) => {
+      const frame = compileFrame(effect, 0, degrees);
+      const diag = frameDiagnostics(frame, effect, mask);
+      expect(diag.wrapped).toBe(0);
+      const out = renderImage(sprite, frame, effect) as RgbaImage;
+      const ours = new Map<number, { x: number; y: number }>();
+      for (let i = 0; i < W * W; i++) {
+        const d = out.data;
+        if (d[4 * i + 3]) ours.set((d[4 * i] << 16) | (d[4 * i + 1] << 8) | d[4 * i + 2], { x: i % W, y: Math.floor(i / W) });
       }
-    }
-    // Nearest-neighbour resampling drops and doubles a few pixels, but keeps nearly all.
-    expect(compared).toBeGreaterThan(0.8 * colourOf.size);
-  });
+      expect(ours.size).toBe(colourOf.size); // nothing lost: a permutation
+      const theirs = await sharpTurn(sprite, degrees, pc, pr);
+      let compared = 0;
+      for (const [colour, { c, r }] of colourOf) {
+        const ideal = idealCentre(c, r, degrees, effect.pivot);
+        const mine = ours.get(colour)!;
+        for (const p of theirs.get(colour) ?? []) {
+          // The library's own rounding: its pixel centre lies within half a pixel on each axis of the ideal point.
+          expect(Math.hypot(p.x + 0.5 - ideal.x, p.y + 0.5 - ideal.y), "library vs ideal").toBeLessThanOrEqual(Math.SQRT1_2 + 1e-9);
+          expect(Math.hypot(p.x - mine.x, p.y - mine.y), `pixel (${c}, ${r})`).toBeLessThanOrEqual(diag.maxErrorPx + Math.SQRT1_2 + 1e-9);
+          compared++;
+        }
+      }
+      // Nearest-neighbour resampling drops and doubles a few pixels, but keeps nearly all.
+      expect(compared).toBeGreaterThan(0.8 * colourOf.size);
+    },
+  );
 });

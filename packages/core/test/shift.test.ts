@@ -60,7 +60,11 @@ describe("shift: exact for every allowed coefficient and coordinate (BigInt refe
 });
 
 describe("shift: symmetry", () => {
-  const anyShift = fc.tuple(fc.integer({ min: -(2 ** 31), max: 2 ** 31 - 1 }), fc.integer({ min: -8192, max: 8192 }), fc.integer({ min: 0, max: 31 }));
+  const anyShift = fc.tuple(
+    fc.integer({ min: -(2 ** 31), max: 2 ** 31 - 1 }),
+    fc.integer({ min: -8192, max: 8192 }),
+    fc.integer({ min: 0, max: 31 }),
+  );
 
   it.each(["nearest-away", "trunc"] as const)("%s is symmetric: s(k, −t) = −s(k, t) (spec §4)", (rounding) => {
     fc.assert(

@@ -59,7 +59,9 @@ type Values = { [K in keyof typeof exportArgOptions]?: (typeof exportArgOptions)
 
 /** The effect's name from its file: the base name without ".json" (and ".effect"). */
 export function nameFromPath(path: string): string {
-  return basename(path).replace(/\.json$/i, "").replace(/\.effect$/i, "");
+  return basename(path)
+    .replace(/\.json$/i, "")
+    .replace(/\.effect$/i, "");
 }
 
 /** Export options from parsed command-line values; bad words and numbers become a UsageError naming the option. */
@@ -69,7 +71,9 @@ export function exportOptionsFromArgs(values: Values, path: string): ExportOptio
     const words = values.outputs.split(",").map((w) => w.trim());
     for (const w of words)
       if (!(EXPORT_OUTPUTS as readonly string[]).includes(w))
-        throw new UsageError(`--outputs: ${JSON.stringify(w)} is not allowed; allowed a comma-separated list of ${EXPORT_OUTPUTS.join(", ")}`);
+        throw new UsageError(
+          `--outputs: ${JSON.stringify(w)} is not allowed; allowed a comma-separated list of ${EXPORT_OUTPUTS.join(", ")}`,
+        );
     outputs = words as ExportOutput[];
   }
   let registerBits: number | undefined;
@@ -77,7 +81,9 @@ export function exportOptionsFromArgs(values: Values, path: string): ExportOptio
     const text = values["register-bits"];
     registerBits = /^\d+$/.test(text) ? Number(text) : Number.NaN;
     if (!(registerBits >= REGISTER_BITS.min && registerBits <= REGISTER_BITS.max))
-      throw new UsageError(`--register-bits: ${JSON.stringify(text)} is not allowed; allowed a whole number from ${REGISTER_BITS.min} to ${REGISTER_BITS.max}`);
+      throw new UsageError(
+        `--register-bits: ${JSON.stringify(text)} is not allowed; allowed a whole number from ${REGISTER_BITS.min} to ${REGISTER_BITS.max}`,
+      );
   }
   return {
     name: nameFromPath(path),

@@ -32,7 +32,8 @@ options:
     let align: number | undefined;
     if (values.align !== undefined) {
       align = Number(values.align);
-      if (!/^\d+$/.test(values.align) || align < 1 || align > 4096) throw new UsageError(`--align: "${values.align}" is not allowed; allowed a whole number from 1 to 4096`);
+      if (!/^\d+$/.test(values.align) || align < 1 || align > 4096)
+        throw new UsageError(`--align: "${values.align}" is not allowed; allowed a whole number from 1 to 4096`);
     }
     const fit = canvasFit(effect, { mask, align });
     if (values.json) {

@@ -10,7 +10,8 @@ import { readEffectFile } from "./readEffectFile.ts";
 function wholeNumberOption(name: string, text: string | undefined, min: number, max: number): number | undefined {
   if (text === undefined) return undefined;
   const n = Number(text);
-  if (!/^-?\d+$/.test(text) || n < min || n > max) throw new UsageError(`--${name}: "${text}" is not allowed; allowed a whole number from ${min} to ${max}`);
+  if (!/^-?\d+$/.test(text) || n < min || n > max)
+    throw new UsageError(`--${name}: "${text}" is not allowed; allowed a whole number from ${min} to ${max}`);
   return n;
 }
 

@@ -52,7 +52,10 @@ function antisymmetry(frames: readonly FrameTables[], key: "h" | "v"): Availabil
         };
     }
     if (n % 2 === 1 && t[n >> 1] !== 0)
-      return { available: false, reason: `${key} is not antisymmetric: frame ${f.index} has ${key}[${n >> 1}] = ${t[n >> 1]} on the middle ${what}, not 0` };
+      return {
+        available: false,
+        reason: `${key} is not antisymmetric: frame ${f.index} has ${key}[${n >> 1}] = ${t[n >> 1]} on the middle ${what}, not 0`,
+      };
   }
   return { available: true, reason: `${key}[${key === "h" ? "H" : "W"}−1−i] = −${key}[i] in every frame` };
 }

@@ -167,19 +167,43 @@ export function budgetFromTables(tables: CompiledTables<FrameTables>, options: E
   const outputs: BudgetOutput[] = options.outputs.map((output) => {
     switch (output) {
       case "c":
-        return { output, files: files.c, romBytes: packed.bytes, paddingBytes: 0, note: "array sizes; the compiler aligns each array as its target needs" };
+        return {
+          output,
+          files: files.c,
+          romBytes: packed.bytes,
+          paddingBytes: 0,
+          note: "array sizes; the compiler aligns each array as its target needs",
+        };
       case "6502":
       case "z80":
         return { output, files: files[output], romBytes: packed.bytes, paddingBytes: 0, note: "no alignment" };
       case "68k":
       case "arm":
-        return { output, files: files[output], romBytes: aligned.bytes, paddingBytes: aligned.padding, note: "16-bit tables 2-byte, 32-bit tables 4-byte aligned" };
+        return {
+          output,
+          files: files[output],
+          romBytes: aligned.bytes,
+          paddingBytes: aligned.padding,
+          note: "16-bit tables 2-byte, 32-bit tables 4-byte aligned",
+        };
       case "bin":
-        return { output, files: files.bin, romBytes: aligned.bytes, paddingBytes: aligned.padding, note: "each file; aligned like the 68k and ARM sections" };
+        return {
+          output,
+          files: files.bin,
+          romBytes: aligned.bytes,
+          paddingBytes: aligned.padding,
+          note: "each file; aligned like the 68k and ARM sections",
+        };
       case "json":
         return { output, files: files.json, romBytes: null, paddingBytes: 0, note: "not ROM data: the tables document" };
       case "runtime":
-        return { output, files: files.runtime, romBytes: null, paddingBytes: 0, note: "code, not data: computes h and v, so their tables can stay out of ROM" };
+        return {
+          output,
+          files: files.runtime,
+          romBytes: null,
+          paddingBytes: 0,
+          note: "code, not data: computes h and v, so their tables can stay out of ROM",
+        };
     }
   });
   const hv = plan.plans.filter((p) => p.role === "h" || p.role === "v");
@@ -212,7 +236,8 @@ export function budgetText(report: BudgetReport): string {
   const table = rows.map((r) => `  ${r[0].padEnd(w[0])}  ${r[1].padEnd(w[1])}  ${r[2].padEnd(w[2])}  ${r[3].padStart(w[3])}`.trimEnd());
 
   const outRows = [["output", "ROM bytes", "padding", "files"]];
-  for (const o of report.outputs) outRows.push([o.output, o.romBytes === null ? "-" : String(o.romBytes), String(o.paddingBytes), o.files.join(", ")]);
+  for (const o of report.outputs)
+    outRows.push([o.output, o.romBytes === null ? "-" : String(o.romBytes), String(o.paddingBytes), o.files.join(", ")]);
   const ow = [0, 1, 2].map((i) => Math.max(...outRows.map((r) => r[i].length)));
   const outs = outRows.map((r, i) => {
     const note = i === 0 ? "" : `  (${report.outputs[i - 1].note})`;
@@ -220,7 +245,12 @@ export function budgetText(report: BudgetReport): string {
   });
 
   const options = report.options.map((o) => {
-    const saving = o.savingBytes === null ? "" : o.savingBytes === 0 ? "0 bytes; " : `${signedBytes(o.savingBytes)}${o.chosen === "off" ? " if on" : ""}; `;
+    const saving =
+      o.savingBytes === null
+        ? ""
+        : o.savingBytes === 0
+          ? "0 bytes; "
+          : `${signedBytes(o.savingBytes)}${o.chosen === "off" ? " if on" : ""}; `;
     return `  ${o.option} ${o.chosen}: ${saving}${o.note}`;
   });
   const delta = report.baselineBytes - report.totalBytes;

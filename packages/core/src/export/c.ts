@@ -61,7 +61,12 @@ function initializer(layout: ExportLayout, t: LayoutTable): string[] {
   const out: string[] = [];
   const n = t.dims[1];
   for (let start = 0, u = 0; start < t.values.length; start += n, u++) {
-    out.push(`    /* ${layout.frameNotes[u]} */`, "    {", ...row(start, start + n, "        "), `    }${start + n < t.values.length ? "," : ""}`);
+    out.push(
+      `    /* ${layout.frameNotes[u]} */`,
+      "    {",
+      ...row(start, start + n, "        "),
+      `    }${start + n < t.values.length ? "," : ""}`,
+    );
   }
   return out;
 }
@@ -69,7 +74,10 @@ function initializer(layout: ExportLayout, t: LayoutTable): string[] {
 /** The source `L.c`: every table defined as a const array, for C99 and C++ compilers alike. */
 export function cSource(layout: ExportLayout): string {
   const L = layout.label;
-  const lines = [...cComment([...parameterLines(layout), "", `Table definitions; declarations and constants are in ${L}.h.`]), `#include "${L}.h"`];
+  const lines = [
+    ...cComment([...parameterLines(layout), "", `Table definitions; declarations and constants are in ${L}.h.`]),
+    `#include "${L}.h"`,
+  ];
   for (const t of layout.tables) lines.push("", `/* ${t.description} */`, `${declaration(t)} = {`, ...initializer(layout, t), "};");
   lines.push("");
   return lines.join("\n");

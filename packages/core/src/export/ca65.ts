@@ -7,7 +7,11 @@ export const ca65Dialect: AsmDialect = {
   comment: ";",
   data: { 1: ".byte", 2: ".word", 4: ".dword" },
   // ca65 rejects -3 in .byte and .word ("Range error (-3 not in [0..65535])", checked with ca65 2.19).
-  operand: (value, type) => `$${twosComplement(value, type.bytes).toString(16).toUpperCase().padStart(type.bytes * 2, "0")}`,
+  operand: (value, type) =>
+    `$${twosComplement(value, type.bytes)
+      .toString(16)
+      .toUpperCase()
+      .padStart(type.bytes * 2, "0")}`,
   global: (name) => `.export ${name}`,
   constant: (name, value) => `${name} = ${value}`,
   section: '.segment "RODATA"',

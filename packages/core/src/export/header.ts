@@ -66,7 +66,6 @@ export function wrapAfterCommas(text: string, width = LINE): string[] {
   return lines;
 }
 
-
 /** Breaks prose into lines of at most `width` characters at spaces. */
 export function wrapWords(text: string, width = LINE): string[] {
   const lines: string[] = [];
@@ -85,8 +84,13 @@ export function wrapWords(text: string, width = LINE): string[] {
 export function settingsLines(layout: ExportLayout): string[] {
   const { effect, options: o } = layout;
   const fp = effect.fixedPoint;
-  const half =
-    !o.half ? "no" : layout.halfH && layout.halfV ? "h and v (both antisymmetric)" : layout.halfH ? "h only (v is not antisymmetric)" : "v only (h is not antisymmetric)";
+  const half = !o.half
+    ? "no"
+    : layout.halfH && layout.halfV
+      ? "h and v (both antisymmetric)"
+      : layout.halfH
+        ? "h only (v is not antisymmetric)"
+        : "v only (h is not antisymmetric)";
   const lines = [
     `Skewsmith export${o.name ? ` of effect "${commentSafe(o.name)}"` : ""}, label ${layout.label}`,
     `canvas: ${effect.canvas.width} x ${effect.canvas.height} pixels; pivot: (${num(effect.pivot.x)}, ${num(effect.pivot.y)}) in pixel-edge coordinates`,

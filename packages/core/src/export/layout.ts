@@ -85,7 +85,12 @@ export function resolveElement(analysis: ExportAnalysis, options: ExportOptions)
   if (element === "auto") {
     const t = registerBits !== null ? smallestStorage(0, 2 ** registerBits - 1, true) : smallestStorage(min, max, false);
     if (t) return t;
-    throw new ExportOptionError("sign", sign, '"shift" for this effect', `the negated shifts run from ${min} to ${max}, which no type up to int32 holds`);
+    throw new ExportOptionError(
+      "sign",
+      sign,
+      '"shift" for this effect',
+      `the negated shifts run from ${min} to ${max}, which no type up to int32 holds`,
+    );
   }
   const t = STORAGE[element];
   if (min >= t.min && max <= t.max) return t;
@@ -133,12 +138,27 @@ export function planLayout({ analysis, effect, options, element }: PlanInput) {
     { name: `${L}_FRAMES`, value: frames, description: "frames in the angle track" },
     { name: `${L}_WIDTH`, value: width, description: "canvas width in pixels: entries of a whole v table" },
     { name: `${L}_HEIGHT`, value: height, description: "canvas height in pixels: entries of a whole h table" },
-    { name: `${L}_FRACTION`, value: effect.fixedPoint.fraction, description: `fraction bits of alpha and beta (${effect.fixedPoint.bits}-bit signed)` },
+    {
+      name: `${L}_FRACTION`,
+      value: effect.fixedPoint.fraction,
+      description: `fraction bits of alpha and beta (${effect.fixedPoint.bits}-bit signed)`,
+    },
   ];
-  if (options.dedupe) constants.push({ name: `${L}_STORED_FRAMES`, value: storedFrames, description: "frames stored after identical frames were shared" });
+  if (options.dedupe)
+    constants.push({ name: `${L}_STORED_FRAMES`, value: storedFrames, description: "frames stored after identical frames were shared" });
   const mod = options.registerBits !== null ? ` mod 2^${options.registerBits}` : "";
-  if (halfH) constants.push({ name: `${L}_H_ENTRIES`, value: hEntries, description: `rows stored per frame; row r >= ${hEntries} is -h[HEIGHT-1-r]${mod}` });
-  if (halfV) constants.push({ name: `${L}_V_ENTRIES`, value: vEntries, description: `columns stored per frame; column c >= ${vEntries} is -v[WIDTH-1-c]${mod}` });
+  if (halfH)
+    constants.push({
+      name: `${L}_H_ENTRIES`,
+      value: hEntries,
+      description: `rows stored per frame; row r >= ${hEntries} is -h[HEIGHT-1-r]${mod}`,
+    });
+  if (halfV)
+    constants.push({
+      name: `${L}_V_ENTRIES`,
+      value: vEntries,
+      description: `columns stored per frame; column c >= ${vEntries} is -v[WIDTH-1-c]${mod}`,
+    });
   const framesDim = options.dedupe ? `${L}_STORED_FRAMES` : `${L}_FRAMES`;
 
   const what = options.sign === "scroll" ? "scroll values (negated shifts)" : "shifts";
@@ -160,7 +180,13 @@ export function planLayout({ analysis, effect, options, element }: PlanInput) {
       dimNames: [framesDim, halfV ? `${L}_V_ENTRIES` : `${L}_WIDTH`],
       description: `column ${what} in whole pixels${wrapWord}, [${byFrame}][column]${halfV ? `, columns 0 to ${vEntries - 1} only` : ""}; +1 moves a column ${down}`,
     },
-    { role: "flip", type: STORAGE.uint8, dims: [storedFrames], dimNames: [framesDim], description: `half-turn flip per ${byFrame}: 1 = mirror both axes first, 0 = none` },
+    {
+      role: "flip",
+      type: STORAGE.uint8,
+      dims: [storedFrames],
+      dimNames: [framesDim],
+      description: `half-turn flip per ${byFrame}: 1 = mirror both axes first, 0 = none`,
+    },
     {
       role: "alpha",
       type: coefficient,
@@ -177,7 +203,13 @@ export function planLayout({ analysis, effect, options, element }: PlanInput) {
     },
   ];
   if (index)
-    base.push({ role: "frame", type: index, dims: [frames], dimNames: [`${L}_FRAMES`], description: "stored frame of every frame i: index the other tables with it" });
+    base.push({
+      role: "frame",
+      type: index,
+      dims: [frames],
+      dimNames: [`${L}_FRAMES`],
+      description: "stored frame of every frame i: index the other tables with it",
+    });
 
   const splitRoles: TableRole[] = [];
   if (options.split) {
@@ -210,7 +242,8 @@ export function planLayout({ analysis, effect, options, element }: PlanInput) {
     } else plans.push({ ...b, name: `${L}_${b.role}`, part: "whole", count, bytes: count * b.type.bytes });
   }
   for (const p of plans)
-    if (p.bytes > BANK_BYTES) notes.push(`${p.name} takes ${p.bytes} bytes, more than the ${BANK_BYTES}-byte address space of a 6502/65816 bank or a Z80.`);
+    if (p.bytes > BANK_BYTES)
+      notes.push(`${p.name} takes ${p.bytes} bytes, more than the ${BANK_BYTES}-byte address space of a 6502/65816 bank or a Z80.`);
 
   return { storedFrames, halfH, halfV, hEntries, vEntries, coefficient, splitRoles, constants, plans, notes };
 }
@@ -248,13 +281,17 @@ export function layoutFromTables(tables: CompiledTables<FrameTables>, options: E
   const tablesOut: LayoutTable[] = plan.plans.map((p) => {
     const whole = wholeValues(p.role);
     // Split tables: the low and high byte of each 16-bit two's complement value.
-    const values = p.part === "whole" ? whole : whole.map((x) => (p.part === "lo" ? twosComplement(x, 2) & 0xff : twosComplement(x, 2) >> 8));
+    const values =
+      p.part === "whole" ? whole : whole.map((x) => (p.part === "lo" ? twosComplement(x, 2) & 0xff : twosComplement(x, 2) >> 8));
     return { ...p, values };
   });
 
   const frameNotes = stored.map((held) => {
     const f = tables.frames[held[0]];
-    const which = held.length === 1 ? `frame ${held[0]}` : `frames ${held.slice(0, 8).join(", ")}${held.length > 8 ? `, ... (${held.length} in all)` : ""}`;
+    const which =
+      held.length === 1
+        ? `frame ${held[0]}`
+        : `frames ${held.slice(0, 8).join(", ")}${held.length > 8 ? `, ... (${held.length} in all)` : ""}`;
     return `${which}: ${degreesText(f.degrees)}${f.flip ? `, flip + ${degreesText(f.residualDegrees)}` : ""}${f.saturated ? ", saturated" : ""}`;
   });
 
@@ -294,7 +331,10 @@ export interface TablePlacement {
 }
 
 /** Places tables one after another; with `aligned`, each starts at a multiple of its element size (2 or 4 bytes), zero padding between. */
-export function placeTables<T extends TablePlan>(tables: readonly T[], aligned: boolean): { placements: (TablePlacement & { table: T })[]; bytes: number; padding: number } {
+export function placeTables<T extends TablePlan>(
+  tables: readonly T[],
+  aligned: boolean,
+): { placements: (TablePlacement & { table: T })[]; bytes: number; padding: number } {
   let at = 0;
   let padding = 0;
   const placements = tables.map((table) => {

@@ -77,7 +77,8 @@ function flag(field: string, value: unknown): boolean {
 export function resolveExportOptions(input: ExportOptionsInput = {}): ExportOptions {
   if (typeof input !== "object" || input === null) throw new ExportOptionError("options", input, "an object");
   for (const key of Object.keys(input))
-    if (!KNOWN.includes(key)) throw new ExportOptionError(key, (input as Record<string, unknown>)[key], `only the options ${KNOWN.join(", ")}`, "unknown option");
+    if (!KNOWN.includes(key))
+      throw new ExportOptionError(key, (input as Record<string, unknown>)[key], `only the options ${KNOWN.join(", ")}`, "unknown option");
 
   const name = input.name ?? null;
   if (name !== null && typeof name !== "string") throw new ExportOptionError("name", name, "a string or null");

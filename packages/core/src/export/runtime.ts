@@ -14,11 +14,7 @@ function roundingLines(rounding: Rounding, s: number, half: string, mask: string
     case "nearest-away":
       return ["/* nearest-away: round half away from zero */", `r = n >= 0 ? (n + ${half}) >> ${s} : -((-n + ${half}) >> ${s});`];
     case "nearest-up":
-      return [
-        "/* nearest-up: floor(x + 1/2) */",
-        `n += ${half};`,
-        `r = n >= 0 ? n >> ${s} : -((-n + ${mask}) >> ${s});`,
-      ];
+      return ["/* nearest-up: floor(x + 1/2) */", `n += ${half};`, `r = n >= 0 ? n >> ${s} : -((-n + ${mask}) >> ${s});`];
     case "floor":
       return ["/* floor: toward minus infinity */", `r = n >= 0 ? n >> ${s} : -((-n + ${mask}) >> ${s});`];
     case "trunc":
@@ -60,7 +56,9 @@ export function runtimeSource(layout: ExportLayout): string {
   if (options.registerBits !== null) {
     const m = options.registerBits === 32 ? "" : ` & 0x${(2 ** options.registerBits - 1).toString(16).toUpperCase()}u`;
     result = `(${E})((uint32_t)r${m})`;
-    out.push(`/* ${options.registerBits}-bit register: wrap modulo 2^${options.registerBits} (conversion to uint32_t is modulo 2^32, C99 6.3.1.3) */`);
+    out.push(
+      `/* ${options.registerBits}-bit register: wrap modulo 2^${options.registerBits} (conversion to uint32_t is modulo 2^32, C99 6.3.1.3) */`,
+    );
   }
 
   const lines = [

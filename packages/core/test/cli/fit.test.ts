@@ -11,12 +11,25 @@ const effect = parseEffect(effectDoc);
 w.write("effect.json", effectDoc);
 // A 20 × 12 block of palette index 1 in a canvas-sized indexed PNG.
 const samples = Array.from({ length: 480 }, (_, i) => (i % 24 >= 2 && i % 24 < 22 && i >= 4 * 24 && i < 16 * 24 ? 1 : 0));
-const sprite = pngBytes({ width: 24, height: 20, depth: 8, colorType: 3, samples, palette: [[0, 0, 0], [255, 255, 255]] });
+const sprite = pngBytes({
+  width: 24,
+  height: 20,
+  depth: 8,
+  colorType: 3,
+  samples,
+  palette: [
+    [0, 0, 0],
+    [255, 255, 255],
+  ],
+});
 w.write("sprite.png", sprite);
 
 describe("skewsmith fit (the real binary)", () => {
   it("--json prints the canvas fit of the whole canvas, and --image restricts it to the picture's non-background pixels", async () => {
-    const [whole, masked] = await Promise.all([w.run("fit", "effect.json", "--json"), w.run("fit", "effect.json", "--image", "sprite.png", "--json", "--align", "4")]);
+    const [whole, masked] = await Promise.all([
+      w.run("fit", "effect.json", "--json"),
+      w.run("fit", "effect.json", "--image", "sprite.png", "--json", "--align", "4"),
+    ]);
     for (const r of [whole, masked]) {
       expect(r.code).toBe(0);
       expect(r.stderr).toBe("");
@@ -41,7 +54,10 @@ describe("skewsmith fit (the real binary)", () => {
 
   it("a bad --align or a picture of the wrong size is a usage error: exit 2, nothing on stdout", async () => {
     w.write("tiny.png", pngBytes({ width: 2, height: 2, depth: 8, colorType: 0, samples: [1, 2, 3, 4] }));
-    const [align, size] = await Promise.all([w.run("fit", "effect.json", "--align", "0"), w.run("fit", "effect.json", "--image", "tiny.png")]);
+    const [align, size] = await Promise.all([
+      w.run("fit", "effect.json", "--align", "0"),
+      w.run("fit", "effect.json", "--image", "tiny.png"),
+    ]);
     for (const r of [align, size]) {
       expect(r.code).toBe(2);
       expect(r.stdout).toBe("");

@@ -9,7 +9,12 @@ const w = workdir();
 afterAll(() => w.remove());
 
 // 12 × 10 canvas, pivot on a pixel edge, a sweep of 4 frames: 0°, 90°, 180°, 270°→−90°, edges clipped.
-const effectDoc = { canvas: { width: 12, height: 10 }, pivot: { x: 6, y: 5 }, angles: { sweep: { from: 0, to: 360, frames: 4 } }, edges: "clip" };
+const effectDoc = {
+  canvas: { width: 12, height: 10 },
+  pivot: { x: 6, y: 5 },
+  angles: { sweep: { from: 0, to: 360, frames: 4 } },
+  edges: "clip",
+};
 const effect = parseEffect(effectDoc);
 w.write("effect.json", effectDoc);
 
@@ -20,7 +25,7 @@ const palette = [
   [20, 250, 20],
   [20, 20, 250],
 ] as const;
-const indices = Array.from({ length: 120 }, (_, i) => ((i % 12) > 2 && (i % 12) < 9 && i > 24 && i < 96 ? 1 + (i % 3) : 0));
+const indices = Array.from({ length: 120 }, (_, i) => (i % 12 > 2 && i % 12 < 9 && i > 24 && i < 96 ? 1 + (i % 3) : 0));
 w.write("sprite.png", pngBytes({ width: 12, height: 10, depth: 2, colorType: 3, samples: indices, palette, trns: [0] }));
 
 describe("skewsmith render (the real binary)", () => {
@@ -39,7 +44,9 @@ describe("skewsmith render (the real binary)", () => {
 
   it("--pass 1 and 2 stop after the first row pass and the column pass", async () => {
     const [one, two] = await Promise.all(
-      ["1", "2"].map((pass) => w.run("render", "effect.json", "--image", "sprite.png", "--frame", "3", "--pass", pass, "--out", `pass${pass}.png`)),
+      ["1", "2"].map((pass) =>
+        w.run("render", "effect.json", "--image", "sprite.png", "--frame", "3", "--pass", pass, "--out", `pass${pass}.png`),
+      ),
     );
     expect([one.code, two.code]).toEqual([0, 0]);
     const input = decodePng(new Uint8Array(readFileSync(w.path("sprite.png"))));
@@ -53,7 +60,12 @@ describe("skewsmith render (the real binary)", () => {
   it("an RGBA PNG comes out RGBA, transparent where nothing lands", async () => {
     const rgba = new Uint8Array(120 * 4);
     for (let i = 30; i < 90; i++) rgba.set([i, 255 - i, 7, 255], 4 * i);
-    w.write("rgba.png", await sharp(rgba, { raw: { width: 12, height: 10, channels: 4 } }).png().toBuffer());
+    w.write(
+      "rgba.png",
+      await sharp(rgba, { raw: { width: 12, height: 10, channels: 4 } })
+        .png()
+        .toBuffer(),
+    );
     const r = await w.run("render", "effect.json", "--image", "rgba.png", "--frame", "2", "--out", "rgba-out.png");
     expect([r.code, r.stdout, r.stderr]).toEqual([0, "", ""]);
     const out = decodePng(new Uint8Array(readFileSync(w.path("rgba-out.png")))) as RgbaImage;

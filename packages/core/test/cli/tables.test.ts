@@ -32,7 +32,12 @@ describe("skewsmith tables agrees with the spec on worked cases (derived by hand
   });
 
   it("spec §3: sin 90° does not fit Q1.7, kβ = 127 and the frame is saturated", async () => {
-    const doc = await tables({ canvas: { width: 2, height: 2 }, pivot: { x: 1, y: 1 }, angles: { list: [90] }, fixedPoint: { bits: 8, fraction: 7 } });
+    const doc = await tables({
+      canvas: { width: 2, height: 2 },
+      pivot: { x: 1, y: 1 },
+      angles: { list: [90] },
+      fixedPoint: { bits: 8, fraction: 7 },
+    });
     const f = doc.frames[0];
     expect([f.alpha, f.beta, f.saturated]).toEqual([-128, 127, true]);
     // h = R(−128·(∓1)/256) = R(±1/2) = ±1; v = R(127·(∓1)/256) = R(∓0.496) = 0.
@@ -63,7 +68,12 @@ describe("skewsmith tables agrees with the spec on worked cases (derived by hand
   });
 
   it("normalisation, half-turn flips, column groups and the defaults filled in", async () => {
-    const doc = await tables({ canvas: { width: 8, height: 2 }, pivot: { x: 4, y: 1 }, angles: { list: [30, -540, 200, 135, 90] }, columnGroup: 4 });
+    const doc = await tables({
+      canvas: { width: 8, height: 2 },
+      pivot: { x: 4, y: 1 },
+      angles: { list: [30, -540, 200, 135, 90] },
+      columnGroup: 4,
+    });
     expect(doc.effect).toEqual({
       format: "skewsmith.effect/1",
       canvas: { width: 8, height: 2 },
@@ -75,7 +85,9 @@ describe("skewsmith tables agrees with the spec on worked cases (derived by hand
       edges: "wrap",
       columnGroup: 4,
     });
-    expect(doc.frames.map((f: { degrees: number; residualDegrees: number; flip: boolean }) => [f.degrees, f.residualDegrees, f.flip])).toEqual([
+    expect(
+      doc.frames.map((f: { degrees: number; residualDegrees: number; flip: boolean }) => [f.degrees, f.residualDegrees, f.flip]),
+    ).toEqual([
       [30, 30, false],
       [180, 0, true],
       [-160, 20, true],
@@ -105,7 +117,10 @@ describe("skewsmith tables agrees with the spec on worked cases (derived by hand
 
 describe("skewsmith tables refuses bad input without printing tables", () => {
   it("a half-valid document: every bad field on stderr, nothing on stdout, exit 2", async () => {
-    const r = await w.run("tables", w.write("bad.json", { canvas: { width: 8, height: 0 }, pivot: { x: 3.25, y: 1 }, angles: { list: [0] }, edges: "bounce" }));
+    const r = await w.run(
+      "tables",
+      w.write("bad.json", { canvas: { width: 8, height: 0 }, pivot: { x: 3.25, y: 1 }, angles: { list: [0] }, edges: "bounce" }),
+    );
     expect(r.code).toBe(2);
     expect(r.stdout).toBe("");
     expect(r.stderr).toContain("bad.json");
@@ -134,7 +149,13 @@ describe("skewsmith tables refuses bad input without printing tables", () => {
   it("shifts no element type holds are an error, not wrapped numbers (spec §4)", async () => {
     const r = await w.run(
       "tables",
-      w.write("huge.json", { canvas: { width: 2, height: 2 }, pivot: { x: 0, y: 0 }, angles: { list: [180] }, fixedPoint: { bits: 32, fraction: 0 }, halfTurn: "shear" }),
+      w.write("huge.json", {
+        canvas: { width: 2, height: 2 },
+        pivot: { x: 0, y: 0 },
+        angles: { list: [180] },
+        fixedPoint: { bits: 32, fraction: 0 },
+        halfTurn: "shear",
+      }),
     );
     expect(r.code).toBe(2);
     expect(r.stdout).toBe("");

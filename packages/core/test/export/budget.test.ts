@@ -51,7 +51,9 @@ describe("the export budget", () => {
   it("reports a forced element type's cost against auto, as the assembled sizes show", () => {
     const budget = exportBudget(effectOf("compass, defaults"), { label: "compass", element: "int16" });
     const element = budget.options.find((o) => o.option === "element")!;
-    expect(element.savingBytes).toBe(z80Bytes("compass, defaults", { label: "compass" }) - z80Bytes("compass, defaults", { label: "compass", element: "int16" }));
+    expect(element.savingBytes).toBe(
+      z80Bytes("compass, defaults", { label: "compass" }) - z80Bytes("compass, defaults", { label: "compass", element: "int16" }),
+    );
     expect(element.savingBytes).toBeLessThan(0);
   });
 

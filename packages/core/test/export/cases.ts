@@ -29,11 +29,21 @@ export const CASES: readonly ExportCase[] = [
   // The demo emblem: with the flip, |θr| <= 90 so |tan(θr/2)| <= 1 and |sin θr| <= 1: no shift beyond 16 px on a 32 px canvas.
   { id: "compass, defaults", effect: compass, options: { label: "compass", name: "Compass rose" }, element: "int8" },
   // Scroll sign, half tables (nearest-away about a centred pivot is symmetric, spec §4) and dedupe (no frame repeats).
-  { id: "compass, scroll half dedupe", effect: compass, options: { label: "rose", sign: "scroll", half: true, dedupe: true }, element: "int8" },
+  {
+    id: "compass, scroll half dedupe",
+    effect: compass,
+    options: { label: "rose", sign: "scroll", half: true, dedupe: true },
+    element: "int8",
+  },
   // A ±12° tilt that repeats frames, for a 10-bit scroll register: values wrap into 0..1023, which needs 16 bits.
   {
     id: "storm, 10-bit scroll register split half dedupe",
-    effect: { canvas: { width: 256, height: 224 }, pivot: { x: 128, y: 112 }, angles: { list: [0, 6, 12, 6, 0, -6, -12, -6, 0] }, columnGroup: 16 },
+    effect: {
+      canvas: { width: 256, height: 224 },
+      pivot: { x: 128, y: 112 },
+      angles: { list: [0, 6, 12, 6, 0, -6, -12, -6, 0] },
+      columnGroup: 16,
+    },
     options: { label: "storm", sign: "scroll", registerBits: 10, split: true, half: true, dedupe: true },
     element: "uint16",
   },

@@ -43,7 +43,21 @@ describe("skewsmith export", () => {
 
   it("writes the zip with --zip, and unzip lists the files the chosen outputs make", async () => {
     const zip = join(dir, "storm.zip");
-    const r = await cli("export", compass, "--zip", zip, "--label", "storm", "--outputs", "6502,z80,bin", "--sign", "scroll", "--register-bits", "9", "--dedupe");
+    const r = await cli(
+      "export",
+      compass,
+      "--zip",
+      zip,
+      "--label",
+      "storm",
+      "--outputs",
+      "6502,z80,bin",
+      "--sign",
+      "scroll",
+      "--register-bits",
+      "9",
+      "--dedupe",
+    );
     expect(r.code).toBe(0);
     const names = run("unzip", ["-Z1", zip], dir).trim().split("\n").sort();
     expect(names).toEqual(["README.txt", "storm.6502.s", "storm.be.bin", "storm.effect.json", "storm.le.bin", "storm.z80.s"]);
@@ -55,7 +69,9 @@ describe("skewsmith export", () => {
 
   it("regenerates the same files from the bundle's effect document with the command its README gives", async () => {
     const first = join(dir, "first");
-    expect((await cli("export", wide, "--out", first, "--label", "wide", "--split", "--sign", "scroll", "--element", "int32")).code).toBe(0);
+    expect((await cli("export", wide, "--out", first, "--label", "wide", "--split", "--sign", "scroll", "--element", "int32")).code).toBe(
+      0,
+    );
     const readme = readFileSync(join(first, "README.txt"), "utf8");
     const command = /^ {2}skewsmith (export \S+\.effect\.json --out DIR .*)$/m.exec(readme)![1].split(" ");
     const again = join(dir, "again");
@@ -65,11 +81,11 @@ describe("skewsmith export", () => {
   });
 
   it.each([
-    [["--sign", "up"], "--sign: \"up\" is not allowed; allowed one of \"shift\", \"scroll\""],
-    [["--element", "int8"], "--element: \"int8\" is not allowed (the exported values run from"],
-    [["--register-bits", "ten"], "--register-bits: \"ten\" is not allowed; allowed a whole number from 1 to 32"],
-    [["--outputs", "c,pdf"], "--outputs: \"pdf\" is not allowed"],
-    [["--label", "9x"], "--label: \"9x\" is not allowed"],
+    [["--sign", "up"], '--sign: "up" is not allowed; allowed one of "shift", "scroll"'],
+    [["--element", "int8"], '--element: "int8" is not allowed (the exported values run from'],
+    [["--register-bits", "ten"], '--register-bits: "ten" is not allowed; allowed a whole number from 1 to 32'],
+    [["--outputs", "c,pdf"], '--outputs: "pdf" is not allowed'],
+    [["--label", "9x"], '--label: "9x" is not allowed'],
     [["--bogus"], "Unknown option '--bogus'"],
   ])("refuses %j with exit code 2 and a message naming the option", async (args, message) => {
     const out = join(dir, "refused");
@@ -103,7 +119,11 @@ describe("skewsmith budget", () => {
     expect(text.code).toBe(0);
     expect(text.stdout).toContain("ROM budget for compass: 64 frames");
     const json = await cli("budget", compass, "--dedupe", "--split", "--json");
-    const report = JSON.parse(json.stdout) as { totalBytes: number; tables: { name: string; bytes: number }[]; outputs: { output: string; romBytes: number | null }[] };
+    const report = JSON.parse(json.stdout) as {
+      totalBytes: number;
+      tables: { name: string; bytes: number }[];
+      outputs: { output: string; romBytes: number | null }[];
+    };
     for (const t of report.tables) expect(text.stdout).toMatch(new RegExp(`${t.name}\\s.*\\s${t.bytes}\\n`));
     // The exported binary is as long as the budget says.
     const out = join(dir, "budgeted");

@@ -111,7 +111,8 @@ describe("export options", () => {
     const layout = exportLayout(effectOf("storm"), { label: "st", registerBits: 9 });
     expect(layout.element.name).toBe("uint16");
     expect(exportLayout(effectOf("storm"), { label: "st", registerBits: 8 }).element.name).toBe("uint8");
-    for (const t of layout.tables.filter((x) => x.role === "h" || x.role === "v")) for (const v of t.values) expect(v >= 0 && v < 512).toBe(true);
+    for (const t of layout.tables.filter((x) => x.role === "h" || x.role === "v"))
+      for (const v of t.values) expect(v >= 0 && v < 512).toBe(true);
   });
 });
 

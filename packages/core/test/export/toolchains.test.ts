@@ -109,7 +109,10 @@ describe.each(CASES)("export of $id", (c) => {
   it(
     "GNU as for ARM assembles it without a warning, little- and big-endian; .rodata is L.le.bin and L.be.bin",
     () => {
-      for (const [flag, little, bin] of [["-mlittle-endian", true, "le"], ["-mbig-endian", false, "be"]] as const) {
+      for (const [flag, little, bin] of [
+        ["-mlittle-endian", true, "le"],
+        ["-mbig-endian", false, "be"],
+      ] as const) {
         run("arm-none-eabi-as", ["--fatal-warnings", flag, "-o", `${L}.arm.${bin}.o`, `${L}.arm.s`], dir);
         run("arm-none-eabi-objcopy", ["-O", "binary", "-j", ".rodata", `${L}.arm.${bin}.o`, `${L}.arm.${bin}.rodata`], dir);
         const rodata = new Uint8Array(readFileSync(file(`${L}.arm.${bin}.rodata`)));
@@ -267,7 +270,20 @@ int main(void)
       writeFileSync(file("bundle.zip"), bundle.zip);
       run("unzip", ["-tq", "bundle.zip"], dir, false);
       const listing = run("unzip", ["-Z1", "bundle.zip"], dir).trim().split("\n");
-      const names = [`README.txt`, `${L}.h`, `${L}.c`, `${L}.6502.s`, `${L}.68k.s`, `${L}.arm.s`, `${L}.z80.s`, `${L}.le.bin`, `${L}.be.bin`, `${L}.json`, `${L}_runtime.c`, `${L}.effect.json`];
+      const names = [
+        `README.txt`,
+        `${L}.h`,
+        `${L}.c`,
+        `${L}.6502.s`,
+        `${L}.68k.s`,
+        `${L}.arm.s`,
+        `${L}.z80.s`,
+        `${L}.le.bin`,
+        `${L}.be.bin`,
+        `${L}.json`,
+        `${L}_runtime.c`,
+        `${L}.effect.json`,
+      ];
       expect([...listing].sort()).toEqual([...names].sort());
       for (const f of bundle.files) expect(hex(runBytes("unzip", ["-p", "bundle.zip", f.name], dir)), f.name).toBe(hex(f.bytes));
       const readme = bundle.files.find((f) => f.name === "README.txt")!.text!;

@@ -1,5 +1,15 @@
 import fc from "fast-check";
-import { EDGES, HALF_TURNS, ROUNDINGS, angleTrack, compileFrame, parseEffect, type Bits, type Effect, type FrameTables } from "../../src/index.ts";
+import {
+  EDGES,
+  HALF_TURNS,
+  ROUNDINGS,
+  angleTrack,
+  compileFrame,
+  parseEffect,
+  type Bits,
+  type Effect,
+  type FrameTables,
+} from "../../src/index.ts";
 
 /** Any valid effect on a small canvas (at most `maxSide` pixels a side) with one frame at any angle. */
 export function smallEffect(options: { maxSide?: number; edges?: "wrap" | "clip"; centred?: boolean } = {}): fc.Arbitrary<Effect> {
@@ -21,7 +31,9 @@ export function smallEffect(options: { maxSide?: number; edges?: "wrap" | "clip"
     .map((r) =>
       parseEffect({
         canvas: { width: r.width, height: r.height },
-        pivot: options.centred ? { x: r.width / 2, y: r.height / 2 } : { x: (r.px % (2 * r.width + 1)) / 2, y: (r.py % (2 * r.height + 1)) / 2 },
+        pivot: options.centred
+          ? { x: r.width / 2, y: r.height / 2 }
+          : { x: (r.px % (2 * r.width + 1)) / 2, y: (r.py % (2 * r.height + 1)) / 2 },
         angles: { list: [r.angle] },
         fixedPoint: { bits: r.bits, fraction: r.fraction % r.bits },
         rounding: r.rounding,

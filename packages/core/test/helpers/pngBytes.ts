@@ -58,7 +58,7 @@ export function pngBytes(options: {
 export function pngChunks(png: Uint8Array): { type: string; length: number; body: Uint8Array }[] {
   const b = Buffer.from(png.buffer, png.byteOffset, png.byteLength);
   const out: { type: string; length: number; body: Uint8Array }[] = [];
-  for (let at = 8; at < b.length; ) {
+  for (let at = 8; at < b.length;) {
     const length = b.readUInt32BE(at);
     out.push({ type: b.toString("latin1", at + 4, at + 8), length, body: png.subarray(at + 8, at + 8 + length) });
     // Every chunk's CRC covers its type and body (PNG specification §5.3).

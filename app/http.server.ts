@@ -1,0 +1,103 @@
+/**
+ * Reading request bodies as an attacker may send them. Every action and API route reads its body through
+ * these: a body of the wrong kind is a 415, a broken or oversized one a 400 or 413, never a 500. What they
+ * throw is a `data({ message }, { status })` response, the same shape the guards throw.
+ */
+import { data } from "react-router";
+
+/** Largest form body without a file, in bytes (names, descriptions and settings fit many times over). */
+export const FORM_MAX_BYTES = 256 * 1024;
+/** Largest JSON body of an API call, in bytes: an effect document with a 4096-angle list fits well inside. */
+export const JSON_MAX_BYTES = 1024 * 1024;
+
+function fail(status: number, message: string): never {
+  throw data({ message }, { status });
+}
+
+/** The media type of a request, lower-case, without parameters ("" when there is none). */
+export function mediaType(request: Request): string {
+  return (request.headers.get("Content-Type") ?? "").split(";")[0].trim().toLowerCase();
+}
+
+/** Reads at most `maxBytes` of the body; 413 beyond that, whatever Content-Length claims. */
+async function readBounded(request: Request, maxBytes: number): Promise<Uint8Array<ArrayBuffer>> {
+  const declared = Number(request.headers.get("Content-Length") ?? "NaN");
+  if (Number.isFinite(declared) && declared > maxBytes)
+    fail(413, `The request body is ${declared} bytes; at most ${maxBytes} are accepted here.`);
+  if (!request.body) return new Uint8Array(new ArrayBuffer(0));
+  const reader = request.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    let chunk: ReadableStreamReadResult<Uint8Array>;
+    try {
+      chunk = await reader.read();
+    } catch {
+      return fail(400, "The request body could not be read to its end.");
+    }
+    if (chunk.done) break;
+    size += chunk.value.byteLength;
+    if (size > maxBytes) {
+      await reader.cancel().catch(() => {});
+      fail(413, `The request body is larger than ${maxBytes} bytes, the most accepted here.`);
+    }
+    chunks.push(chunk.value);
+  }
+  const out = new Uint8Array(new ArrayBuffer(size));
+  let at = 0;
+  for (const c of chunks) {
+    out.set(c, at);
+    at += c.byteLength;
+  }
+  return out;
+}
+
+/**
+ * The request's form: 415 unless it is `application/x-www-form-urlencoded` or `multipart/form-data`, 413 beyond
+ * `maxBytes`, 400 when the body does not parse as the form it claims to be.
+ */
+export async function readForm(request: Request, options: { maxBytes?: number } = {}): Promise<FormData> {
+  const type = mediaType(request);
+  if (type !== "application/x-www-form-urlencoded" && type !== "multipart/form-data")
+    fail(
+      415,
+      `This address takes a form (application/x-www-form-urlencoded or multipart/form-data), not ${type || "a body without a Content-Type"}.`,
+    );
+  const body = await readBounded(request, options.maxBytes ?? FORM_MAX_BYTES);
+  try {
+    return await new Request("http://local/", {
+      method: "POST",
+      headers: { "Content-Type": request.headers.get("Content-Type") ?? type },
+      body,
+    }).formData();
+  } catch {
+    return fail(400, "The form could not be read: its body is not valid for its Content-Type.");
+  }
+}
+
+/** The request's JSON body: 415 unless it is `application/json`, 413 beyond `maxBytes`, 400 when it does not parse. */
+export async function readJson(request: Request, options: { maxBytes?: number } = {}): Promise<unknown> {
+  const type = mediaType(request);
+  if (type !== "application/json")
+    fail(415, `This address takes JSON (Content-Type: application/json), not ${type || "a body without a Content-Type"}.`);
+  const body = await readBounded(request, options.maxBytes ?? JSON_MAX_BYTES);
+  let text: string;
+  try {
+    text = new TextDecoder("utf-8", { fatal: true }).decode(body);
+  } catch {
+    return fail(400, "The body is not valid UTF-8.");
+  }
+  try {
+    return JSON.parse(text);
+  } catch (error) {
+    return fail(400, `The body is not valid JSON: ${(error as Error).message}.`);
+  }
+}
+
+/** A form field as a string: "" when missing, and the first value when the field is repeated; files are refused (400). */
+export function formText(form: FormData, name: string): string {
+  const value = form.get(name);
+  if (value === null) return "";
+  if (typeof value !== "string") fail(400, `The field “${name}” must be text, not a file.`);
+  return value;
+}
