@@ -19,6 +19,18 @@ export default defineConfig({
       },
       {
         test: {
+          // Requests to the production server (started by the same global setup as the browser tests, or by a test
+          // itself when it needs a server of its own): hostile bodies, origins, headers, races, crashes.
+          name: "http",
+          environment: "node",
+          include: ["tests/http/**/*.test.ts"],
+          globalSetup: ["tests/e2e/globalSetup.ts"],
+          testTimeout: 120_000,
+          hookTimeout: 120_000,
+        },
+      },
+      {
+        test: {
           name: "e2e",
           environment: "node",
           include: ["tests/e2e/**/*.test.ts"],

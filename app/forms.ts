@@ -43,7 +43,18 @@ const id = (what: string) => z.string({ error: `Choose a ${what}.` }).uuid(`That
 
 export const createTeamForm = z.object({ name: name("team") });
 
-export const renameTeamForm = z.object({ name: name("team") });
+/**
+ * The version of a versioned thing (team, project, effect, target profile, sprite) the form was filled from; the
+ * change is refused (409) when someone saved a newer one meanwhile, so nobody overwrites another's change unseen.
+ */
+export const versionField = (what: string) =>
+  z.coerce
+    .number({ error: `The form is missing the ${what}'s version; reload the page and try again.` })
+    .int(`The ${what}'s version must be a whole number; reload the page and try again.`)
+    .min(1, `The ${what}'s version must be 1 or more; reload the page and try again.`)
+    .max(2_147_483_647, `The ${what}'s version is out of range; reload the page and try again.`);
+
+export const renameTeamForm = z.object({ name: name("team"), version: versionField("team") });
 
 export const changeRoleForm = z.object({
   userId: id("member"),
@@ -54,8 +65,11 @@ export const memberForm = z.object({ userId: id("member") });
 
 export const projectForm = z.object({
   name: name("project"),
-  description: z.string().trim().max(DESCRIPTION_MAX, `Keep the description to ${DESCRIPTION_MAX} characters or fewer.`).default(""),
+  description: descriptionText(),
 });
+
+/** Editing an existing project's details: as creating one, plus the version they were read at. */
+export const projectDetailsForm = projectForm.extend({ version: versionField("project") });
 
 export const createEffectForm = z.object({
   name: name("effect"),
@@ -69,7 +83,7 @@ export const createEffectForm = z.object({
 
 export const effectForm = z.object({ effectId: id("effect") });
 
-export const renameEffectForm = z.object({ effectId: id("effect"), name: name("effect") });
+export const renameEffectForm = z.object({ effectId: id("effect"), name: name("effect"), version: versionField("effect") });
 
 /** Field messages of a failed parse, one string per field (the first problem found). */
 export type FieldErrors = Record<string, string>;
@@ -94,13 +108,39 @@ export function errorsFor(actionData: ActionResult | undefined, intent: string, 
   return actionData.errors;
 }
 
-/** Parses a submitted form with a schema: the data, or the field messages to show. */
+/** True when a schema field takes a list (several values under one name, such as checkboxes). */
+function takesList(field: z.ZodType): boolean {
+  let t: z.ZodType | undefined = field;
+  for (let depth = 0; t && depth < 8; depth++) {
+    const def = t._zod.def as { type: string; innerType?: z.ZodType; in?: z.ZodType };
+    if (def.type === "array") return true;
+    t = def.innerType ?? def.in;
+  }
+  return false;
+}
+
+/**
+ * Parses a submitted form with a schema: the data, or the field messages to show. Only the schema's own fields
+ * are read; a file where text belongs, or a field sent twice that takes one value, is a field message too (never
+ * silently the first or the last one).
+ */
 export function parseForm<S extends z.ZodType>(
   schema: S,
   form: FormData,
 ): { ok: true; data: z.output<S> } | { ok: false; errors: FieldErrors } {
-  const values: Record<string, unknown> = {};
-  for (const [key, value] of form.entries()) if (typeof value === "string") values[key] = value;
+  const shape = schema instanceof z.ZodObject ? (schema.shape as Record<string, z.ZodType>) : null;
+  // A null-prototype record: a field called "__proto__" or "constructor" is just a field.
+  const values: Record<string, unknown> = Object.create(null);
+  const problems: FieldErrors = {};
+  for (const key of new Set(form.keys())) {
+    if (shape && !Object.hasOwn(shape, key)) continue;
+    const all = form.getAll(key);
+    if (all.some((v) => typeof v !== "string")) problems[key] = `“${key}” must be text, not a file.`;
+    else if (shape && takesList(shape[key])) values[key] = all;
+    else if (all.length > 1) problems[key] = `The form sent “${key}” ${all.length} times; it takes one value.`;
+    else values[key] = all[0];
+  }
   const result = schema.safeParse(values);
+  if (Object.keys(problems).length > 0) return { ok: false, errors: { ...(result.success ? {} : fieldErrors(result.error)), ...problems } };
   return result.success ? { ok: true, data: result.data } : { ok: false, errors: fieldErrors(result.error) };
 }

@@ -3,28 +3,39 @@
  * Signed in but not a member: 404 (we do not confirm that the thing exists). A member whose role is
  * too low: 403. Each returns what the route needs next (the user, the team, the role…).
  */
+import { and, eq } from "drizzle-orm";
 import { data, redirect, type SessionStorage } from "react-router";
 import type { Db } from "./db/client.server.ts";
-import type { EffectRow, Project, Role, Team, User } from "./db/schema.ts";
+import { effects, memberships, projects, teams, type EffectRow, type Project, type Role, type Team, type User } from "./db/schema.ts";
 import { db } from "./db.server.ts";
-import { getEffect } from "./models/effects.server.ts";
-import { getProject } from "./models/projects.server.ts";
-import { getRole, getTeam } from "./models/teams.server.ts";
 import { getUser } from "./models/users.server.ts";
+import { currentRequest } from "./requestContext.server.ts";
 import { hasRole } from "./roles.ts";
 import { sessionStorage, type SessionData } from "./sessions.server.ts";
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** True for a well-formed UUID (any other id is answered 404 before anything is looked up). */
+export function isUuid(value: unknown): value is string {
+  return typeof value === "string" && UUID.test(value);
+}
+
+/**
+ * The one answer to "not there" and "not yours", whatever the thing and wherever it is asked for (pages, files,
+ * the API): the same status and the same words, so an id cannot be probed (docs/decisions/0002).
+ */
+export const NOT_FOUND_MESSAGE = "There is nothing here, or it belongs to a team you are not in.";
+
+/** Throws the one 404 answer. */
+export function notFound(): never {
+  throw data({ message: NOT_FOUND_MESSAGE }, { status: 404 });
+}
 
 /** The message of a 403, in the words a person can act on. */
 export function forbiddenMessage(role: Role, needed: Role): string {
   return needed === "owner"
     ? `Only owners can do this; you are ${role === "editor" ? "an editor" : "a viewer"} in this team.`
     : `Viewers can read but not change anything. Ask an owner of the team to make you an editor.`;
-}
-
-function notFound(what: string): never {
-  throw data({ message: `This ${what} does not exist, or you are not a member of its team.` }, { status: 404 });
 }
 
 function forbid(role: Role, needed: Role): never {
@@ -39,10 +50,26 @@ function returnPath(request: Request): string {
 }
 
 export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionData> }) {
-  async function getUserFromRequest(request: Request): Promise<User | null> {
-    const session = await deps.sessions.getSession(request.headers.get("Cookie"));
+  async function lookUpUser(cookie: string | null): Promise<User | null> {
+    if (!cookie) return null;
+    const session = await deps.sessions.getSession(cookie);
     const userId = session.get("userId");
-    return userId ? getUser(deps.db, userId) : null;
+    return typeof userId === "string" ? getUser(deps.db, userId) : null;
+  }
+
+  /** The signed-in person, looked up once per request (the root and the route both ask), and noted for the log. */
+  async function getUserFromRequest(request: Request): Promise<User | null> {
+    const cookie = request.headers.get("Cookie");
+    const info = currentRequest();
+    let user: Promise<User | null>;
+    if (info?.session && info.session.cookie === cookie) user = info.session.user as Promise<User | null>;
+    else {
+      user = lookUpUser(cookie);
+      if (info) info.session = { cookie, user };
+    }
+    const found = await user;
+    if (found && info) info.userId = found.id;
+    return found;
   }
 
   async function requireUser(request: Request): Promise<User> {
@@ -51,18 +78,26 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     return user;
   }
 
+  function check(role: Role | null, needed: Role): asserts role is Role {
+    if (!role) notFound();
+    if (!hasRole(role, needed)) forbid(role, needed);
+  }
+
   async function requireTeamRole(
     request: Request,
     teamId: string | undefined,
     needed: Role,
   ): Promise<{ user: User; team: Team; role: Role }> {
     const user = await requireUser(request);
-    if (!teamId || !UUID.test(teamId)) notFound("team");
-    const role = await getRole(deps.db, teamId, user.id);
-    const team = role ? await getTeam(deps.db, teamId) : null;
-    if (!role || !team) notFound("team");
-    if (!hasRole(role, needed)) forbid(role, needed);
-    return { user, team, role };
+    if (!isUuid(teamId)) notFound();
+    // One round trip: the team and the person's membership in it.
+    const [row] = await deps.db
+      .select({ team: teams, role: memberships.role })
+      .from(teams)
+      .innerJoin(memberships, and(eq(memberships.teamId, teams.id), eq(memberships.userId, user.id)))
+      .where(eq(teams.id, teamId));
+    check(row?.role ?? null, needed);
+    return { user, team: row.team, role: row.role };
   }
 
   async function requireProjectRole(
@@ -71,13 +106,15 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     needed: Role,
   ): Promise<{ user: User; team: Team; project: Project; role: Role }> {
     const user = await requireUser(request);
-    if (!projectId || !UUID.test(projectId)) notFound("project");
-    const project = await getProject(deps.db, projectId);
-    const role = project ? await getRole(deps.db, project.teamId, user.id) : null;
-    const team = project && role ? await getTeam(deps.db, project.teamId) : null;
-    if (!project || !role || !team) notFound("project");
-    if (!hasRole(role, needed)) forbid(role, needed);
-    return { user, team, project, role };
+    if (!isUuid(projectId)) notFound();
+    const [row] = await deps.db
+      .select({ project: projects, team: teams, role: memberships.role })
+      .from(projects)
+      .innerJoin(teams, eq(teams.id, projects.teamId))
+      .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, user.id)))
+      .where(eq(projects.id, projectId));
+    check(row?.role ?? null, needed);
+    return { user, team: row.team, project: row.project, role: row.role };
   }
 
   async function requireEffectRole(
@@ -86,14 +123,16 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     needed: Role,
   ): Promise<{ user: User; team: Team; project: Project; effect: EffectRow; role: Role }> {
     const user = await requireUser(request);
-    if (!effectId || !UUID.test(effectId)) notFound("effect");
-    const effect = await getEffect(deps.db, effectId);
-    const project = effect ? await getProject(deps.db, effect.projectId) : null;
-    const role = project ? await getRole(deps.db, project.teamId, user.id) : null;
-    const team = project && role ? await getTeam(deps.db, project.teamId) : null;
-    if (!effect || !project || !role || !team) notFound("effect");
-    if (!hasRole(role, needed)) forbid(role, needed);
-    return { user, team, project, effect, role };
+    if (!isUuid(effectId)) notFound();
+    const [row] = await deps.db
+      .select({ effect: effects, project: projects, team: teams, role: memberships.role })
+      .from(effects)
+      .innerJoin(projects, eq(projects.id, effects.projectId))
+      .innerJoin(teams, eq(teams.id, projects.teamId))
+      .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, user.id)))
+      .where(eq(effects.id, effectId));
+    check(row?.role ?? null, needed);
+    return { user, team: row.team, project: row.project, effect: row.effect, role: row.role };
   }
 
   return { getUserFromRequest, requireUser, requireTeamRole, requireProjectRole, requireEffectRole };

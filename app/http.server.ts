@@ -101,3 +101,19 @@ export function formText(form: FormData, name: string): string {
   if (typeof value !== "string") fail(400, `The field “${name}” must be text, not a file.`);
   return value;
 }
+
+/**
+ * A Content-Disposition header for a file name of any characters: an ASCII fallback (`filename`, quotes, slashes,
+ * controls and non-ASCII replaced) and the exact name in `filename*` (RFC 6266 / RFC 8187), which headers can carry.
+ */
+export function contentDisposition(kind: "inline" | "attachment", filename: string): string {
+  const fallback =
+    filename
+      .normalize("NFKD")
+      .replace(/[\u0300-\u036f]/g, "")
+      .replace(/[^\x20-\x7e]|["\\/%;]/g, "_")
+      .slice(0, 120)
+      .trim() || "download";
+  const exact = encodeURIComponent(filename.slice(0, 200)).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
+  return `${kind}; filename="${fallback}"; filename*=UTF-8''${exact}`;
+}

@@ -10,6 +10,8 @@ import type { Route } from "./+types/root";
 import { buttonClass, Wordmark } from "./components/ui.tsx";
 import { env } from "./env.server.ts";
 import { getUserFromRequest } from "./guards.server.ts";
+import { useNonce } from "./nonce.ts";
+import { currentRequestId } from "./requestContext.server.ts";
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
@@ -17,7 +19,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await getUserFromRequest(request);
   return {
     user: user ? { login: user.login, name: user.name } : null,
-    mailbox: env().DEV_MAILBOX_URL !== undefined,
+    mailbox: env().mailboxEnabled,
+    /** This request's id: an error page rendered by the server shows it, so a report can be matched to the log. */
+    requestId: currentRequestId() ?? null,
   };
 }
 
@@ -53,6 +57,7 @@ function Header() {
 }
 
 export function Layout({ children }: { children: React.ReactNode }) {
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -64,8 +69,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
       </head>
       <body className="min-h-screen antialiased">
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );
@@ -82,25 +87,41 @@ export default function App() {
   );
 }
 
-const EXPLAIN: Record<number, { title: string; next: string }> = {
-  400: { title: "That request was not understood", next: "Go back, check the form and try again." },
-  403: { title: "Your role does not allow this", next: "Ask an owner of the team to change your role if you need to." },
-  404: { title: "Nothing here", next: "The link may be old, or the thing was archived, deleted or belongs to a team you are not in." },
-  405: { title: "That is not something this page does", next: "Use the page's own buttons." },
-};
+const EXPLAIN = new Map<number, { title: string; next: string }>([
+  [400, { title: "That request was not understood", next: "Go back, check the form and try again." }],
+  [403, { title: "Your role does not allow this", next: "Ask an owner of the team to change your role if you need to." }],
+  [404, { title: "Nothing here", next: "The link may be old, or the thing was archived, deleted or belongs to a team you are not in." }],
+  [405, { title: "That is not something this page does", next: "Use the page's own buttons." }],
+  [409, { title: "Someone changed this at the same time", next: "Reload the page to see the latest version, then try again." }],
+  [413, { title: "That was too much to send", next: "Send less at once." }],
+  [415, { title: "That request was not a form", next: "Use the page's own forms." }],
+  [429, { title: "Too many attempts", next: "Wait a little and try again." }],
+  [
+    503,
+    {
+      title: "Skewsmith cannot reach its database",
+      next: "Nothing was lost. Try again in a few seconds; the page works again once the database is back.",
+    },
+  ],
+]);
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  const root = useRouteLoaderData<typeof loader>("root");
   let status = 500;
   let message = "Something went wrong on our side. The error was logged; try again in a moment.";
   let title = "Unexpected error";
   let next = "Reload the page; if it keeps happening, tell the team that runs this Skewsmith.";
+  // The id of the request that failed: carried by the error (every error a route throws gets it), else, for a page
+  // the server rendered, the id of that request.
+  let reference: string | null = root?.requestId ?? null;
   if (isRouteErrorResponse(error)) {
     status = error.status;
-    const explained = EXPLAIN[status];
+    const explained = EXPLAIN.get(status);
     title = explained?.title ?? (error.statusText || title);
     next = explained?.next ?? next;
-    const detail = (error.data as { message?: string } | string | undefined) ?? "";
+    const detail = (error.data as { message?: string; requestId?: string } | string | undefined) ?? "";
     message = typeof detail === "string" ? detail || message : (detail.message ?? message);
+    if (typeof detail === "object" && typeof detail.requestId === "string") reference = detail.requestId;
   } else if (import.meta.env.DEV && error instanceof Error) {
     message = error.message;
   }
@@ -114,6 +135,11 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
           {message}
         </p>
         <p className="mt-2 text-sm text-ink-400">{next}</p>
+        {reference ? (
+          <p className="mt-4 text-xs text-ink-500" data-testid="error-reference">
+            Reference for a report: <span className="num select-all">{reference}</span>
+          </p>
+        ) : null}
         <p className="mt-6">
           <Link to="/" className={buttonClass("secondary")}>
             Back to your teams

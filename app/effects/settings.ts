@@ -4,6 +4,7 @@
  */
 import { EDGES, EFFECT_FORMAT, HALF_TURNS, LIMITS, ROUNDINGS, parseEffect, type Effect } from "@skewsmith/core";
 import { z } from "zod";
+import { descriptionText, nameText } from "../forms.ts";
 import { NEW_EFFECT_CANVAS, NEW_EFFECT_FRAMES } from "./display.ts";
 
 /** The settings a target profile fixes for the effects that use it. */
@@ -49,12 +50,12 @@ const whole = (min: number, max: number, what: string) =>
 
 /** A target profile as entered: names, and settings checked against core's ranges. */
 export const targetProfileInput = z.object({
-  name: z.string().trim().min(1, "Give the target profile a name.").max(80, "Keep the name to 80 characters or fewer."),
-  description: z.string().trim().max(2000).default(""),
+  name: nameText("target profile"),
+  description: descriptionText(),
   canvasWidth: whole(LIMITS.canvas.min, LIMITS.canvas.max, "Canvas width"),
   canvasHeight: whole(LIMITS.canvas.min, LIMITS.canvas.max, "Canvas height"),
   fixedPointBits: z.coerce
-    .number()
+    .number({ error: `Bits must be one of ${LIMITS.bits.join(", ")}.` })
     .refine((b) => (LIMITS.bits as readonly number[]).includes(b), `Bits must be one of ${LIMITS.bits.join(", ")}.`),
   fixedPointFraction: whole(0, 31, "Fraction bits"),
   rounding: z.enum(ROUNDINGS, { error: `Rounding must be one of ${ROUNDINGS.join(", ")}.` }),

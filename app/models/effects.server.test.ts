@@ -114,8 +114,10 @@ describe("duplicateEffect, renameEffect, deleteEffect, restoreEffect", () => {
     const { owner, project } = await setup();
     const a = await makeEffect(db, { project, actor: owner, name: "A" });
     await makeEffect(db, { project, actor: owner, name: "B" });
-    await expect(renameEffect(db, { effectId: a.id, name: "b", actorId: owner.id })).rejects.toMatchObject({ field: "name" });
-    await renameEffect(db, { effectId: a.id, name: "A prime", actorId: owner.id });
+    await expect(renameEffect(db, { effectId: a.id, name: "b", expectedVersion: 1, actorId: owner.id })).rejects.toMatchObject({
+      field: "name",
+    });
+    await renameEffect(db, { effectId: a.id, name: "A prime", expectedVersion: 1, actorId: owner.id });
     expect((await listEffects(db, project.id)).map((e) => e.name)).toEqual(["A prime", "B"]);
   });
 

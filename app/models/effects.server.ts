@@ -1,11 +1,11 @@
 import { checkEffect, type Effect } from "@skewsmith/core";
 import { and, asc, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
-import { effects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
+import { effects, projects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
 import { newEffectDocument } from "../effects/settings.ts";
 import { NAME_MAX } from "../forms.ts";
 import { recordActivity } from "./activity.server.ts";
-import { DomainError, isUniqueViolation } from "./errors.ts";
+import { DomainError, isUniqueViolation, staleVersion } from "./errors.ts";
 import { mustGetProject } from "./projects.server.ts";
 
 const NAME_TAKEN = (name: string) =>
@@ -37,6 +37,19 @@ async function assertNameFree(db: Tx, projectId: string, name: string, exceptId?
       ),
     );
   if (clash.length > 0) throw NAME_TAKEN(name);
+}
+
+/**
+ * Serialises the changes that pick or check a name among a project's effects (create, duplicate, rename, restore):
+ * they take the project row's lock in turn, so the check of a free name and the insert that uses it cannot be split
+ * by another's. Twenty duplicates at once then get twenty distinct copy names, one after another.
+ */
+async function lockNames(tx: Tx, projectId: string) {
+  const [project] = await tx.select().from(projects).where(eq(projects.id, projectId)).for("no key update");
+  if (!project) throw new DomainError("That project does not exist.", { status: 404 });
+  // Checked again under the lock: the project may have been archived while this change waited for it.
+  if (project.archivedAt) throw new DomainError("The project is archived; restore it before changing its effects.", { status: 409 });
+  return project;
 }
 
 async function guardUnique<T>(name: string, work: () => Promise<T>): Promise<T> {
@@ -71,7 +84,7 @@ export async function createEffect(
 ): Promise<EffectRow> {
   return guardUnique(input.name, () =>
     db.transaction(async (tx) => {
-      const project = await liveProject(tx, input.projectId);
+      const project = await lockNames(tx, input.projectId);
       let profile = null;
       if (input.targetProfileId) {
         [profile] = await tx
@@ -149,6 +162,7 @@ async function copyName(db: Tx, projectId: string, name: string): Promise<string
 export async function duplicateEffect(db: Tx, input: { effectId: string; actorId: string }): Promise<EffectRow> {
   return db.transaction(async (tx) => {
     const { effect: source, project } = await changeableEffect(tx, input.effectId);
+    await lockNames(tx, project.id);
     const name = await copyName(tx, project.id, source.name);
     const [copy] = await tx
       .insert(effects)
@@ -173,17 +187,24 @@ export async function duplicateEffect(db: Tx, input: { effectId: string; actorId
   });
 }
 
-export async function renameEffect(db: Tx, input: { effectId: string; name: string; actorId: string }): Promise<EffectRow> {
+/** Renames an effect, if nobody changed it since `expectedVersion` (its document's version, which goes up by one). */
+export async function renameEffect(
+  db: Tx,
+  input: { effectId: string; name: string; expectedVersion: number; actorId: string },
+): Promise<EffectRow> {
   return guardUnique(input.name, () =>
     db.transaction(async (tx) => {
       const { effect: before, project } = await changeableEffect(tx, input.effectId);
+      if (before.version !== input.expectedVersion) throw staleVersion("effect", before, input.expectedVersion, "name");
       if (before.name === input.name) return before;
+      await lockNames(tx, project.id);
       await assertNameFree(tx, project.id, input.name, before.id);
       const [after] = await tx
         .update(effects)
-        .set({ name: input.name, updatedBy: input.actorId })
-        .where(eq(effects.id, before.id))
+        .set({ name: input.name, version: sql`${effects.version} + 1`, updatedBy: input.actorId })
+        .where(and(eq(effects.id, before.id), eq(effects.version, input.expectedVersion)))
         .returning();
+      if (!after) throw staleVersion("effect", (await getEffect(tx, before.id)) ?? before, input.expectedVersion, "name");
       await recordActivity(tx, {
         teamId: project.teamId,
         projectId: project.id,
@@ -219,7 +240,7 @@ export async function restoreEffect(db: Tx, input: { effectId: string; actorId: 
   await guardUnique(effect.name, () =>
     db.transaction(async (tx) => {
       if (!effect.deletedAt) return;
-      const project = await liveProject(tx, effect.projectId);
+      const project = await lockNames(tx, effect.projectId);
       try {
         await assertNameFree(tx, project.id, effect.name, effect.id);
       } catch {

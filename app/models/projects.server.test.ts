@@ -17,7 +17,13 @@ describe("createProject and updateProject", () => {
   it("creates, renames and describes a project, recording each change", async () => {
     const { owner, team } = await teamWithOwner();
     const project = await createProject(db, { teamId: team.id, name: "Harbour", actorId: owner.id });
-    await updateProject(db, { projectId: project.id, name: "Harbour level", description: "Level 3", actorId: owner.id });
+    await updateProject(db, {
+      projectId: project.id,
+      name: "Harbour level",
+      description: "Level 3",
+      expectedVersion: 1,
+      actorId: owner.id,
+    });
     const [listed] = await listProjects(db, team.id);
     expect(listed).toMatchObject({ name: "Harbour level", description: "Level 3" });
     const summaries = (await listActivity(db, { teamId: team.id, projectId: project.id })).map((a) => a.summary);
@@ -34,7 +40,7 @@ describe("createProject and updateProject", () => {
     });
     const other = await createProject(db, { teamId: team.id, name: "Other", actorId: owner.id });
     await expect(
-      updateProject(db, { projectId: other.id, name: "TITLE SCREEN", description: "", actorId: owner.id }),
+      updateProject(db, { projectId: other.id, name: "TITLE SCREEN", description: "", expectedVersion: 1, actorId: owner.id }),
     ).rejects.toMatchObject({
       field: "name",
     });
@@ -77,9 +83,9 @@ describe("archiveProject and restoreProject", () => {
     const { owner, team } = await teamWithOwner();
     const project = await makeProject(db, { team, actor: owner });
     await archiveProject(db, { projectId: project.id, actorId: owner.id });
-    await expect(updateProject(db, { projectId: project.id, name: "New", description: "", actorId: owner.id })).rejects.toThrow(
-      /Restore the project/,
-    );
+    await expect(
+      updateProject(db, { projectId: project.id, name: "New", description: "", expectedVersion: 1, actorId: owner.id }),
+    ).rejects.toThrow(/Restore the project/);
   });
 });
 
@@ -106,7 +112,7 @@ describe("listProjects", () => {
     // A change to an effect counts as a change to its project.
     const [before] = (await listProjects(db, team.id)).filter((p) => p.id === gamma.id);
     const first = await makeEffect(db, { project: gamma, actor: owner, name: "late" });
-    await renameEffect(db, { effectId: first.id, name: "later", actorId: owner.id });
+    await renameEffect(db, { effectId: first.id, name: "later", expectedVersion: 1, actorId: owner.id });
     expect((await names("changed", "desc"))[0]).toBe("gamma");
     const [after] = (await listProjects(db, team.id)).filter((p) => p.id === gamma.id);
     expect(after.lastChangedAt.getTime()).toBeGreaterThan(before.lastChangedAt.getTime());

@@ -2,7 +2,7 @@ import { and, asc, desc, eq, isNotNull, isNull, ne, sql, type SQL } from "drizzl
 import type { Tx } from "../db/client.server.ts";
 import { effects, memberships, projects, teams, type Project, type Role } from "../db/schema.ts";
 import { recordActivity } from "./activity.server.ts";
-import { DomainError, isUniqueViolation } from "./errors.ts";
+import { DomainError, isUniqueViolation, staleVersion } from "./errors.ts";
 
 export const PROJECT_SORTS = ["name", "effects", "changed"] as const;
 export type ProjectSort = (typeof PROJECT_SORTS)[number];
@@ -70,22 +70,24 @@ export async function mustGetProject(db: Tx, projectId: string): Promise<Project
   return project;
 }
 
-/** Renames a project and sets its description. */
+/** Renames a project and sets its description, if nobody changed them since `expectedVersion`; the version goes up by one. */
 export async function updateProject(
   db: Tx,
-  input: { projectId: string; name: string; description: string; actorId: string },
+  input: { projectId: string; name: string; description: string; expectedVersion: number; actorId: string },
 ): Promise<Project> {
   return guardUnique(input.name, () =>
     db.transaction(async (tx) => {
       const before = await mustGetProject(tx, input.projectId);
       if (before.archivedAt) throw new DomainError("Restore the project before changing it.", { status: 409 });
+      if (before.version !== input.expectedVersion) throw staleVersion("project", before, input.expectedVersion);
       if (before.name === input.name && before.description === input.description) return before;
       await assertNameFree(tx, before.teamId, input.name, before.id);
       const [after] = await tx
         .update(projects)
-        .set({ name: input.name, description: input.description })
-        .where(eq(projects.id, input.projectId))
+        .set({ name: input.name, description: input.description, version: sql`${projects.version} + 1` })
+        .where(and(eq(projects.id, input.projectId), eq(projects.version, input.expectedVersion)))
         .returning();
+      if (!after) throw staleVersion("project", (await getProject(tx, input.projectId)) ?? before, input.expectedVersion);
       const renamed = before.name !== input.name;
       const described = before.description !== input.description;
       const summary = renamed

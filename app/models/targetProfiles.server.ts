@@ -8,24 +8,24 @@ import { newEffectDocument, targetProfileInput, type TargetProfileInput } from "
 import { recordActivity } from "./activity.server.ts";
 import { DomainError, isUniqueViolation } from "./errors.ts";
 
-const DOCUMENT_TO_FIELD: Record<string, string> = {
-  "canvas.width": "canvasWidth",
-  "canvas.height": "canvasHeight",
-  "fixedPoint.bits": "fixedPointBits",
-  "fixedPoint.fraction": "fixedPointFraction",
-  rounding: "rounding",
-  halfTurn: "halfTurn",
-  edges: "edges",
-  columnGroup: "columnGroup",
-};
+const DOCUMENT_TO_FIELD: ReadonlyMap<string, string> = new Map([
+  ["canvas.width", "canvasWidth"],
+  ["canvas.height", "canvasHeight"],
+  ["fixedPoint.bits", "fixedPointBits"],
+  ["fixedPoint.fraction", "fixedPointFraction"],
+  ["rounding", "rounding"],
+  ["halfTurn", "halfTurn"],
+  ["edges", "edges"],
+  ["columnGroup", "columnGroup"],
+]);
 
-const FIELD_LABEL: Record<string, string> = {
-  canvasWidth: "Canvas width",
-  canvasHeight: "Canvas height",
-  fixedPointBits: "Bits",
-  fixedPointFraction: "Fraction bits",
-  columnGroup: "Column group",
-};
+const FIELD_LABEL: ReadonlyMap<string, string> = new Map([
+  ["canvasWidth", "Canvas width"],
+  ["canvasHeight", "Canvas height"],
+  ["fixedPointBits", "Bits"],
+  ["fixedPointFraction", "Fraction bits"],
+  ["columnGroup", "Column group"],
+]);
 
 /** Creates a target profile for a team; its settings must make a valid effect (checked by core). */
 export async function createTargetProfile(
@@ -44,8 +44,8 @@ export async function createTargetProfile(
     if (error instanceof EffectError) {
       // Name the form field behind the first document field core refused.
       const issue = error.issues[0];
-      const field = DOCUMENT_TO_FIELD[issue.path] ?? undefined;
-      throw new DomainError(`${FIELD_LABEL[field ?? ""] ?? issue.path}: ${issue.message}`, { field });
+      const field = DOCUMENT_TO_FIELD.get(issue.path);
+      throw new DomainError(`${(field && FIELD_LABEL.get(field)) ?? issue.path}: ${issue.message}`, { field });
     }
     throw error;
   }

@@ -139,7 +139,7 @@ describe("addMember and renameTeam", () => {
     await expect(addMember(db, { teamId: team.id, userId: member.id, role: "editor", actorId: owner.id })).rejects.toThrow(
       /already a member/,
     );
-    await renameTeam(db, { teamId: team.id, name: "Renamed Team", actorId: owner.id });
+    await renameTeam(db, { teamId: team.id, name: "Renamed Team", expectedVersion: 1, actorId: owner.id });
     const [mine] = (await listTeamsForUser(db, owner.id)).filter((t) => t.id === team.id);
     expect(mine).toMatchObject({ name: "Renamed Team", slug: team.slug });
   });

@@ -2,7 +2,7 @@ import { and, asc, count, eq, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
 import { memberships, projects, teams, users, type Role, type Team } from "../db/schema.ts";
 import { recordActivity } from "./activity.server.ts";
-import { DomainError, isUniqueViolation } from "./errors.ts";
+import { DomainError, isUniqueViolation, staleVersion } from "./errors.ts";
 import { displayName } from "./users.server.ts";
 
 /** A URL-safe handle from a name: lower-case letters, digits and single dashes. */
@@ -22,6 +22,9 @@ export function slugify(name: string): string {
 export async function createTeam(db: Tx, input: { name: string; ownerId: string; slug?: string }): Promise<Team> {
   const base = input.slug ?? slugify(input.name);
   return db.transaction(async (tx) => {
+    // Teams of one name are made one at a time (a lock on the handle's stem), so two made at the same moment get
+    // base and base-2 rather than one of them a clash.
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`skewsmith.team-slug:${base}`}))`);
     // Pick the first free handle: base, base-2, base-3…
     const taken = await tx
       .select({ slug: teams.slug })
@@ -187,19 +190,30 @@ export async function removeMember(db: Tx, input: { teamId: string; userId: stri
   });
 }
 
-/** Renames a team (its handle stays). */
-export async function renameTeam(db: Tx, input: { teamId: string; name: string; actorId: string }): Promise<void> {
-  await db.transaction(async (tx) => {
+/** Renames a team (its handle stays), if nobody changed it since `expectedVersion`; the version goes up by one. */
+export async function renameTeam(db: Tx, input: { teamId: string; name: string; expectedVersion: number; actorId: string }): Promise<Team> {
+  return db.transaction(async (tx) => {
     const [before] = await tx.select().from(teams).where(eq(teams.id, input.teamId));
     if (!before) throw new DomainError("That team does not exist.", { status: 404 });
-    if (before.name === input.name) return;
-    await tx.update(teams).set({ name: input.name }).where(eq(teams.id, input.teamId));
+    if (before.version !== input.expectedVersion) throw staleVersion("team", before, input.expectedVersion, "name");
+    if (before.name === input.name) return before;
+    // The version in the WHERE is what makes two renames from one version exclusive: the second finds no row.
+    const [after] = await tx
+      .update(teams)
+      .set({ name: input.name, version: sql`${teams.version} + 1` })
+      .where(and(eq(teams.id, input.teamId), eq(teams.version, input.expectedVersion)))
+      .returning();
+    if (!after) {
+      const [now] = await tx.select().from(teams).where(eq(teams.id, input.teamId));
+      throw staleVersion("team", now ?? before, input.expectedVersion, "name");
+    }
     await recordActivity(tx, {
       teamId: input.teamId,
       userId: input.actorId,
       action: "team.renamed",
       summary: `renamed the team from ${before.name} to ${input.name}`,
     });
+    return after;
   });
 }
 

@@ -3,6 +3,8 @@ import { OAuth2RequestError } from "remix-auth-github";
 import type { Route } from "./+types/auth.github.callback";
 import { auth, OAUTH_STATE_COOKIE } from "../auth.server.ts";
 import { env } from "../env.server.ts";
+import { log } from "../log.server.ts";
+import { limitSignIn } from "../rateLimit.server.ts";
 import { sessionStorage } from "../sessions.server.ts";
 import { returnToCookie, safeNext } from "../signin.server.ts";
 
@@ -12,6 +14,7 @@ function clearStateCookie(): string {
 
 /** GitHub (or the stand-in) sends the browser back here; the strategy checks the state, trades the code, and we open a session. */
 export async function loader({ request }: Route.LoaderArgs) {
+  await limitSignIn(request);
   let user;
   try {
     user = await auth().authenticate("github", request);
@@ -23,7 +26,7 @@ export async function loader({ request }: Route.LoaderArgs) {
         : error instanceof RangeError || error instanceof ReferenceError
           ? "state"
           : "provider";
-    console.warn(`sign-in failed (${reason}):`, (error as Error).message);
+    log("warn", "sign-in failed", { reason, detail: (error as Error).message });
     throw redirect(`/sign-in?error=${reason}`, { headers: { "Set-Cookie": clearStateCookie() } });
   }
 

@@ -1,17 +1,19 @@
-import { data, Form } from "react-router";
+import { Form } from "react-router";
 import type { Route } from "./+types/dev.mailbox";
-import { attempt } from "../actions.server.ts";
+import { attempt, unknownIntent } from "../actions.server.ts";
 import { Button, Crumbs, EmptyState, FormError, Notice, PageTitle, Panel, Timestamp } from "../components/ui.tsx";
 import { env } from "../env.server.ts";
-import { requireUser } from "../guards.server.ts";
+import { notFound, requireUser } from "../guards.server.ts";
+import { formText, readForm } from "../http.server.ts";
 import { readDevMailbox, sendMail } from "../mail.server.ts";
 import { DomainError } from "../models/errors.ts";
 import { displayName } from "../models/users.server.ts";
 
 export const meta: Route.MetaFunction = () => [{ title: "Mailbox (development) · Skewsmith" }];
 
+/** The mailbox exists only where the local mail catcher is configured (never beside real SMTP: env.server.ts). */
 function requireMailbox() {
-  if (!env().DEV_MAILBOX_URL) throw data({ message: "The mailbox exists only in development and tests." }, { status: 404 });
+  if (!env().mailboxEnabled) notFound();
 }
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -31,6 +33,8 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
   requireMailbox();
+  const intent = formText(await readForm(request), "intent");
+  if (intent !== "send-test") return unknownIntent(intent);
   return attempt("send-test", async () => {
     if (!user.email) throw new DomainError("Your account shares no e-mail address, so there is nowhere to send a test message.");
     await sendMail({

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/effect.document";
 import { requireEffectRole } from "../guards.server.ts";
+import { contentDisposition } from "../http.server.ts";
 import { validDocument } from "../models/effects.server.ts";
 
 /** The effect document as a file, for the CLI (`skewsmith tables effect.json`). */
@@ -13,7 +14,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return new Response(`${JSON.stringify(validDocument(effect.document), null, 2)}\n`, {
     headers: {
       "Content-Type": "application/json; charset=utf-8",
-      "Content-Disposition": `attachment; filename="${slug}.effect.json"`,
+      "Content-Disposition": contentDisposition("attachment", `${slug}.effect.json`),
       "Cache-Control": "private, no-store",
     },
   });

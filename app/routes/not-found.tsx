@@ -1,8 +1,8 @@
-import { data } from "react-router";
+import { notFound } from "../guards.server.ts";
 
-/** Any address the app does not know: a 404 with the usual explanation (see the root error boundary). */
+/** Any address the app does not know: the one 404 answer (see the root error boundary). */
 export function loader() {
-  throw data({ message: "There is no page at this address." }, { status: 404 });
+  notFound();
 }
 
 export default function NotFound() {

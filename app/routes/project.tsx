@@ -39,11 +39,12 @@ import {
   errorsFor,
   NAME_MAX,
   parseForm,
-  projectForm,
+  projectDetailsForm,
   renameEffectForm,
   type ActionResult,
 } from "../forms.ts";
 import { requireProjectRole } from "../guards.server.ts";
+import { formText, readForm } from "../http.server.ts";
 import { listActivity } from "../models/activity.server.ts";
 import {
   createEffect,
@@ -90,8 +91,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 /** Every change on this page needs an editor (or owner); a viewer gets a 403 before anything is read. */
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = await requireProjectRole(request, params.projectId, "editor");
-  const form = await request.formData();
-  const intent = String(form.get("intent") ?? "");
+  const form = await readForm(request);
+  const intent = formText(form, "intent");
   const actorId = user.id;
 
   // Effect-level changes must name an effect of this project.
@@ -103,10 +104,11 @@ export async function action({ request, params }: Route.ActionArgs) {
 
   switch (intent) {
     case "update-project": {
-      const parsed = parseForm(projectForm, form);
+      const parsed = parseForm(projectDetailsForm, form);
       if (!parsed.ok) return invalid(intent, parsed.errors);
       return attempt(intent, async () => {
-        await updateProject(db(), { projectId: project.id, name: parsed.data.name, description: parsed.data.description, actorId });
+        const { name, description, version } = parsed.data;
+        await updateProject(db(), { projectId: project.id, name, description, expectedVersion: version, actorId });
         return "Project details saved.";
       });
     }
@@ -135,19 +137,16 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     case "rename-effect": {
       const parsed = parseForm(renameEffectForm, form);
-      if (!parsed.ok) return invalid(intent, parsed.errors, 400, String(form.get("effectId") ?? ""));
+      if (!parsed.ok) return invalid(intent, parsed.errors, 400, formText(form, "effectId"));
       if (!(await effectOfProject())) return invalid(intent, { form: "That effect is not in this project." }, 404, parsed.data.effectId);
-      return attempt(
-        intent,
-        async () => void (await renameEffect(db(), { effectId: parsed.data.effectId, name: parsed.data.name, actorId })),
-        parsed.data.effectId,
-      );
+      const { effectId, name, version } = parsed.data;
+      return attempt(intent, async () => void (await renameEffect(db(), { effectId, name, expectedVersion: version, actorId })), effectId);
     }
     case "duplicate-effect":
     case "delete-effect":
     case "restore-effect": {
       const effect = await effectOfProject();
-      if (!effect) return invalid(intent, { form: "That effect is not in this project." }, 404, String(form.get("effectId") ?? ""));
+      if (!effect) return invalid(intent, { form: "That effect is not in this project." }, 404, formText(form, "effectId"));
       const change = { "duplicate-effect": duplicateEffect, "delete-effect": deleteEffect, "restore-effect": restoreEffect }[intent];
       return attempt(intent, async () => void (await change(db(), { effectId: effect.id, actorId })), effect.id);
     }
@@ -210,7 +209,8 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
                 className="mt-1 flex w-60 flex-col gap-2 rounded-md border border-ink-600 bg-ink-850 p-3 text-left"
               >
                 <input type="hidden" name="effectId" value={effect.id} />
-                <Field label="New name" name={`rename-${effect.id}`} error={errors?.name}>
+                <input type="hidden" name="version" value={effect.version} />
+                <Field label="New name" name={`rename-${effect.id}`} error={errors?.name ?? errors?.version}>
                   <TextInput
                     id={`rename-${effect.id}`}
                     name="name"
@@ -239,7 +239,7 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
   const { team, project, role, effects, deleted, profiles, sprites, activity } = loaderData;
   const canEdit = hasRole(role, "editor");
   const archived = project.archivedAt !== null;
-  const detailsCheck = useFormCheck(projectForm);
+  const detailsCheck = useFormCheck(projectDetailsForm);
   const createCheck = useFormCheck(createEffectForm);
   const detailsErrors = detailsCheck.errors ?? errorsFor(actionData, "update-project");
   const createErrors = createCheck.errors ?? errorsFor(actionData, "create-effect");
@@ -288,6 +288,7 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
               onSubmit={detailsCheck.onSubmit}
               noValidate
             >
+              <input type="hidden" name="version" value={project.version} />
               <Field label="Name" name="project-name" error={detailsErrors?.name}>
                 <TextInput
                   id="project-name"
@@ -307,7 +308,7 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
                   error={detailsErrors?.description}
                 />
               </Field>
-              <FormError>{detailsErrors?.form}</FormError>
+              <FormError>{detailsErrors?.form ?? detailsErrors?.version}</FormError>
               <div>
                 <Button variant="primary" name="intent" value="update-project">
                   Save details

@@ -4,7 +4,7 @@ import { buttonClass, FormError, LogoMark, Notice } from "../components/ui.tsx";
 import { DEMO_PEOPLE, DEMO_TEAM } from "../demo/people.ts";
 import { env } from "../env.server.ts";
 import { getUserFromRequest } from "../guards.server.ts";
-import { safeNext, SIGN_IN_ERRORS } from "../signin.server.ts";
+import { safeNext, signInErrorMessage } from "../signin.server.ts";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Skewsmith" }];
 
@@ -15,7 +15,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const error = url.searchParams.get("error");
   return {
     next,
-    error: error ? (SIGN_IN_ERRORS[error] ?? SIGN_IN_ERRORS.provider) : null,
+    error: error ? signInErrorMessage(error) : null,
     signedOut: url.searchParams.has("signed-out"),
     demo: env().usesFakeGitHub ? DEMO_PEOPLE.map((p) => ({ name: p.name, login: p.login, role: p.role })) : null,
   };

@@ -43,6 +43,7 @@ import {
   type ActionResult,
 } from "../forms.ts";
 import { requireTeamRole } from "../guards.server.ts";
+import { formText, readForm } from "../http.server.ts";
 import { listActivity } from "../models/activity.server.ts";
 import { createProject, listProjects, PROJECT_SORTS, restoreProject, type ProjectSort } from "../models/projects.server.ts";
 import { createTargetProfile, listTargetProfiles } from "../models/targetProfiles.server.ts";
@@ -72,8 +73,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, team, role } = await requireTeamRole(request, params.teamId, "viewer");
-  const form = await request.formData();
-  const intent = form.get("intent");
+  const form = await readForm(request);
+  const intent = formText(form, "intent");
   switch (intent) {
     case "create-project": {
       requireAtLeast(role, "editor");
@@ -88,7 +89,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     case "restore-project": {
       requireAtLeast(role, "editor");
-      const projectId = String(form.get("projectId") ?? "");
+      const projectId = formText(form, "projectId");
       const owned = (await listProjects(db(), team.id, { archived: true })).some((p) => p.id === projectId);
       if (!owned) return invalid(intent, { form: "That archived project is not in this team." }, 404, projectId);
       return attempt(intent, () => restoreProject(db(), { projectId, actorId: user.id }), projectId);
@@ -106,12 +107,14 @@ export async function action({ request, params }: Route.ActionArgs) {
       requireAtLeast(role, "owner");
       const parsed = parseForm(renameTeamForm, form);
       if (!parsed.ok) return invalid(intent, parsed.errors);
-      return attempt(intent, () => renameTeam(db(), { teamId: team.id, name: parsed.data.name, actorId: user.id }));
+      return attempt(intent, async () => {
+        await renameTeam(db(), { teamId: team.id, name: parsed.data.name, expectedVersion: parsed.data.version, actorId: user.id });
+      });
     }
     case "change-role": {
       requireAtLeast(role, "owner");
       const parsed = parseForm(changeRoleForm, form);
-      if (!parsed.ok) return invalid(intent, parsed.errors, 400, String(form.get("userId") ?? ""));
+      if (!parsed.ok) return invalid(intent, parsed.errors, 400, formText(form, "userId"));
       return attempt(intent, () => changeRole(db(), { teamId: team.id, ...parsed.data, actorId: user.id }), parsed.data.userId);
     }
     case "remove-member": {
@@ -335,7 +338,8 @@ export default function TeamPage({ loaderData, actionData }: Route.ComponentProp
             <summary className="cursor-pointer text-sm text-ink-400 hover:text-ink-200">Rename team</summary>
             <Form method="post" className="mt-3 flex items-end gap-3">
               <div className="flex-1">
-                <Field label="Team name" name="team-name" error={renameErrors?.name ?? renameErrors?.form}>
+                <input type="hidden" name="version" value={team.version} />
+                <Field label="Team name" name="team-name" error={renameErrors?.name ?? renameErrors?.version ?? renameErrors?.form}>
                   <TextInput id="team-name" name="name" defaultValue={team.name} maxLength={NAME_MAX} required error={renameErrors?.name} />
                 </Field>
               </div>

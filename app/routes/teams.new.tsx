@@ -6,6 +6,7 @@ import { Crumbs, PageTitle, Panel } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
 import { createTeamForm, parseForm } from "../forms.ts";
 import { requireUser } from "../guards.server.ts";
+import { readForm } from "../http.server.ts";
 import { createTeam } from "../models/teams.server.ts";
 
 export const meta: Route.MetaFunction = () => [{ title: "Create a team · Skewsmith" }];
@@ -18,7 +19,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 /** Any signed-in person may create a team; they become its owner. */
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const form = await request.formData();
+  const form = await readForm(request);
   const parsed = parseForm(createTeamForm, form);
   if (!parsed.ok) return invalid("create-team", parsed.errors);
   let teamId = "";

@@ -57,14 +57,19 @@ ensure_node_modules() {
     die "pnpm install failed"
 }
 
-# Fails with a clear message when something already listens on 127.0.0.1:PORT.
-require_free_port() {
-  local port="$1" what="$2"
-  if node -e '
+# True when something already listens on 127.0.0.1:PORT.
+port_in_use() {
+  node -e '
     const s = require("net").connect({ host: "127.0.0.1", port: Number(process.argv[1]) });
     s.on("connect", () => { s.destroy(); process.exit(0); });
     s.on("error", () => process.exit(1));
-  ' "$port"; then
+  ' "$1"
+}
+
+# Fails with a clear message when something already listens on 127.0.0.1:PORT.
+require_free_port() {
+  local port="$1" what="$2"
+  if port_in_use "$port"; then
     die "port $port (for $what) is already in use on 127.0.0.1; stop what uses it or choose another port (see README)"
   fi
 }

@@ -35,7 +35,8 @@ _pg_owner_can_use() {
   pg_as_owner test -w "$1" 2>/dev/null && pg_as_owner test -x "$1" 2>/dev/null
 }
 
-# Creates (once) and starts the cluster in BASE on PORT. MODE "throwaway" trades durability for speed.
+# Creates (once) and starts the cluster in BASE on PORT. MODE "throwaway" trades durability for speed, and
+# moves to the next port when PORT is taken (by anything, at any moment up to the bind), up to 20 times.
 # Sets PG_BASE, PG_DATA, PG_BIN, PG_PORT, PG_PASSWORD and PG_STARTED (1 when this call started it).
 pg_cluster_up() {
   local base="$1" port="$2" mode="${3:-durable}"
@@ -100,11 +101,42 @@ pg_cluster_up() {
     say "PostgreSQL is running on port $running; restarting it on $port"
     pg_as_owner "$PG_BIN/pg_ctl" -D "$PG_DATA" -m fast -w stop >/dev/null
   fi
-  require_free_port "$port" "PostgreSQL"
-  say "starting PostgreSQL on $PG_HOST:$port"
-  pg_as_owner "$PG_BIN/pg_ctl" -D "$PG_DATA" -l "$base/postgres.log" -w -t 60 -o "-p $port" start >/dev/null ||
-    die "PostgreSQL did not start; see $base/postgres.log"
-  PG_STARTED=1
+  if [ "$mode" != throwaway ]; then
+    require_free_port "$port" "PostgreSQL"
+    say "starting PostgreSQL on $PG_HOST:$port"
+    pg_as_owner "$PG_BIN/pg_ctl" -D "$PG_DATA" -l "$base/postgres.log" -w -t 60 -o "-p $port" start >/dev/null ||
+      die "PostgreSQL did not start; see $base/postgres.log"
+    PG_STARTED=1
+    return 0
+  fi
+  # A throwaway cluster takes the first port that really binds: checking first and binding later would race
+  # another run doing the same, so a failed start whose log says the address is taken moves on too.
+  local tries=0
+  while :; do
+    if port_in_use "$port"; then
+      warn "port $port is taken; trying $((port + 1)) for PostgreSQL"
+    else
+      say "starting PostgreSQL on $PG_HOST:$port"
+      local log_start
+      log_start=$(wc -l <"$base/postgres.log" 2>/dev/null || echo 0)
+      if pg_as_owner "$PG_BIN/pg_ctl" -D "$PG_DATA" -l "$base/postgres.log" -w -t 60 -o "-p $port" start >/dev/null; then
+        PG_PORT="$port"
+        PG_STARTED=1
+        return 0
+      fi
+      tail -n +"$((log_start + 1))" "$base/postgres.log" 2>/dev/null | grep -qiE "could not bind|address already in use|could not create any TCP/IP sockets" ||
+        die "PostgreSQL did not start; see $base/postgres.log"
+      warn "port $port was taken while PostgreSQL started; trying $((port + 1))"
+    fi
+    tries=$((tries + 1))
+    [ "$tries" -lt 20 ] || die "no free port for PostgreSQL from $2 to $port"
+    port=$((port + 1))
+  done
+}
+
+# Stops the cluster in PG_DATA now (fast shutdown), whoever started it.
+pg_cluster_stop() {
+  pg_as_owner "$PG_BIN/pg_ctl" -D "$PG_DATA" -m fast -w -t 30 stop >/dev/null 2>&1 || warn "pg_ctl stop failed"
 }
 
 # Stops the cluster if pg_cluster_up started it.

@@ -6,8 +6,8 @@ import { projects, teams, users } from "../../app/db/schema.ts";
 import { DEMO_TEAM, demoPerson } from "../../app/demo/people.ts";
 import { listEffects } from "../../app/models/effects.server.ts";
 import { getRole } from "../../app/models/teams.server.ts";
-import { makeTeam } from "../factories.ts";
-import { launch, screenshot, signIn } from "./support.ts";
+import { makeTeam, makeUser } from "../factories.ts";
+import { launch, postForm, screenshot, signIn, signInAs } from "./support.ts";
 
 const db = createDb(process.env.DATABASE_URL!, { max: 2 });
 let browser: Browser;
@@ -57,15 +57,13 @@ describe("a viewer", () => {
   it("gets a 403 when posting a change anyway, and nothing changes", async () => {
     const { context, page } = await signIn(browser, demoPerson("viewer").login);
     const before = (await listEffects(db, demo.projectId)).map((e) => e.name);
-    const create = await page.request.post(`/projects/${demo.projectId}`, { form: { intent: "create-effect", name: "Sneaky effect" } });
+    const create = await postForm(page, `/projects/${demo.projectId}`, { intent: "create-effect", name: "Sneaky effect" });
     expect(create.status()).toBe(403);
     expect(await create.text()).toContain("Viewers can read but not change anything");
-    const archive = await page.request.post(`/projects/${demo.projectId}`, { form: { intent: "archive-project" } });
+    const archive = await postForm(page, `/projects/${demo.projectId}`, { intent: "archive-project" });
     expect(archive.status()).toBe(403);
     const editor = await userByLogin(demoPerson("editor").login);
-    const promote = await page.request.post(`/teams/${demo.teamId}`, {
-      form: { intent: "change-role", userId: editor.id, role: "viewer" },
-    });
+    const promote = await postForm(page, `/teams/${demo.teamId}`, { intent: "change-role", userId: editor.id, role: "viewer" });
     expect(promote.status()).toBe(403);
     expect((await listEffects(db, demo.projectId)).map((e) => e.name)).toEqual(before);
     expect(await getRole(db, demo.teamId, editor.id)).toBe("editor");
@@ -85,7 +83,7 @@ describe("an editor", () => {
     expect(await page.getByRole("combobox").count()).toBe(0);
     expect(await page.getByRole("button", { name: "Create project" }).count()).toBe(1);
     const viewer = await userByLogin(demoPerson("viewer").login);
-    const attempt = await page.request.post(`/teams/${demo.teamId}`, { form: { intent: "change-role", userId: viewer.id, role: "owner" } });
+    const attempt = await postForm(page, `/teams/${demo.teamId}`, { intent: "change-role", userId: viewer.id, role: "owner" });
     expect(attempt.status()).toBe(403);
     expect(await attempt.text()).toContain("Only owners can do this; you are an editor in this team.");
     expect(await getRole(db, demo.teamId, viewer.id)).toBe("viewer");
@@ -95,12 +93,12 @@ describe("an editor", () => {
 
 describe("an owner", () => {
   it("changes roles and removes members, but cannot demote the team's last owner", async () => {
-    // A fresh team owned by the demo owner, with the demo viewer in it, so the demo team stays as seeded.
-    const owner = await userByLogin(demoPerson("owner").login);
-    const member = await userByLogin(demoPerson("viewer").login);
+    // People and a team of the test's own: the demo stays as seeded, and the test can run again on this database.
+    const owner = await makeUser(db);
+    const member = await makeUser(db);
     const team = await makeTeam(db, { owner, name: `Pier Nine ${Date.now().toString(36)}`, members: [{ user: member, role: "viewer" }] });
 
-    const { context, page } = await signIn(browser, owner.login);
+    const { context, page } = await signInAs(browser, owner);
     await page.goto(`/teams/${team.id}`);
     const memberRow = page.getByTestId(`member-${member.login}`);
     await memberRow.getByRole("combobox").selectOption("editor");

@@ -1,23 +1,29 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_PEOPLE } from "../../app/demo/people.ts";
-import { launch, screenshot, signIn } from "./support.ts";
+import { createDb } from "../../app/db/client.server.ts";
+import { makeUser } from "../factories.ts";
+import { launch, postForm, screenshot, signInAs } from "./support.ts";
 
+const db = createDb(process.env.DATABASE_URL!, { max: 1 });
 let browser: Browser;
 beforeAll(async () => {
   browser = await launch();
 });
-afterAll(() => browser?.close());
+afterAll(async () => {
+  await browser?.close();
+  await db.$client.end();
+});
 
 const tag = Date.now().toString(36);
 const row = (page: Page, name: string) => page.getByTestId(`effect-row-${name}`);
 
 describe("a person with no team", () => {
   it("creates a team and a project, and works with effects in it", async () => {
-    const newcomer = DEMO_PEOPLE.find((p) => p.role === null)!;
-    const { context, page } = await signIn(browser, newcomer.login);
+    // A person of the test's own, in no team yet, so the test can run again on the same database.
+    const newcomer = await makeUser(db);
+    const { context, page } = await signInAs(browser, newcomer);
 
-    // Home, team-less: the empty state says what to do next (each test run has a fresh database).
+    // Home, team-less: the empty state says what to do next.
     await expect.poll(() => page.getByText("You are not in a team yet.").count()).toBe(1);
     await screenshot(page, "home-newcomer");
 
@@ -26,7 +32,7 @@ describe("a person with no team", () => {
     await page.getByRole("button", { name: "Create team" }).first().click();
     await expect.poll(() => page.getByRole("alert").first().textContent()).toBe("Give the team a name.");
     // …and the action, checking the same schema, answers 400 with the field message when posted anyway.
-    const posted = await page.request.post("/teams/new", { form: { intent: "create-team", name: "   " } });
+    const posted = await postForm(page, "/teams/new", { intent: "create-team", name: "   " });
     expect(posted.status()).toBe(400);
     expect(await posted.text()).toContain("Give the team a name.");
 
@@ -57,7 +63,7 @@ describe("a person with no team", () => {
     await page.getByLabel("New project name").fill(" ");
     await page.getByRole("button", { name: "Create project" }).click();
     await expect.poll(() => page.getByRole("alert").first().textContent()).toBe("Give the project a name.");
-    const longName = await page.request.post(page.url(), { form: { intent: "create-project", name: "x".repeat(81) } });
+    const longName = await postForm(page, page.url(), { intent: "create-project", name: "x".repeat(81) });
     expect(longName.status()).toBe(400);
     expect(await longName.text()).toContain("Keep the project name to 80 characters or fewer.");
     await page.getByLabel("New project name").fill("Title screen");

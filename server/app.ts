@@ -1,0 +1,197 @@
+/**
+ * The Node server around the app (after the framework's custom-server template): it is the server build's entry
+ * (vite.config.ts), started by server.js. Per request, in this order:
+ *
+ *   request context   a request id, the client address, the signed-in person once known (AsyncLocalStorage), and
+ *                     one JSON log line when the answer is done (id, method, path, status, duration, user);
+ *   compression       gzip or brotli when the client takes it;
+ *   static files      /assets/* (hashed, cached for a year) and the files at the build's client root; in development
+ *                     Vite serves them instead;
+ *   the app           app/serverHandler.server.ts: origin check, every route behind the catch-all, headers.
+ */
+import { performance } from "node:perf_hooks";
+import { readdirSync } from "node:fs";
+import path from "node:path";
+import { createReadableStreamFromReadable, writeReadableStreamToWritable } from "@react-router/node";
+import compression from "compression";
+import express, { type NextFunction, type Request as ExpressRequest, type RequestHandler, type Response as ExpressResponse } from "express";
+import type { ServerBuild } from "react-router";
+import * as builtApp from "virtual:react-router/server-build";
+import { db } from "../app/db.server.ts";
+import { env } from "../app/env.server.ts";
+import { log, logError } from "../app/log.server.ts";
+import { loggablePath, newRequestId, runWithRequest, type RequestInfo } from "../app/requestContext.server.ts";
+import { commonSecurityHeaders } from "../app/security.server.ts";
+import { createFetchHandler, finishResponse, refusal } from "../app/serverHandler.server.ts";
+
+export interface AppOptions {
+  mode: "production" | "development";
+  /** Production: the build's client folder (build/client), served as static files. */
+  clientDir?: string;
+  /** Development: Vite's middlewares (assets, HMR) and how to load the current build. */
+  assets?: RequestHandler;
+  loadBuild?: () => Promise<ServerBuild>;
+}
+
+/** The client's address: the socket's, or the entry `TRUST_PROXY` hops from the right of X-Forwarded-For. */
+function clientAddress(req: ExpressRequest, trustProxy: number): string {
+  const socket = req.socket.remoteAddress ?? "unknown";
+  if (trustProxy === 0) return socket;
+  const forwarded = String(req.headers["x-forwarded-for"] ?? "")
+    .split(",")
+    .map((s) => s.trim())
+    .filter(Boolean);
+  return forwarded[forwarded.length - trustProxy] ?? forwarded[0] ?? socket;
+}
+
+function pathnameOf(url: string): string {
+  const q = url.search(/[?#]/);
+  return q === -1 ? url : url.slice(0, q);
+}
+
+/** Opens the request context and writes the request's log line when its answer is done. */
+function requestContext(trustProxy: number): RequestHandler {
+  return (req, res, next) => {
+    const info: RequestInfo = {
+      id: newRequestId(),
+      method: req.method,
+      path: loggablePath(pathnameOf(req.originalUrl ?? req.url)),
+      clientAddress: clientAddress(req, trustProxy),
+      startedAt: performance.now(),
+    };
+    res.setHeader("X-Request-Id", info.id);
+    let logged = false;
+    const done = (aborted: boolean) => {
+      if (logged) return;
+      logged = true;
+      const bytes = Number(res.getHeader("Content-Length"));
+      log("info", "request", {
+        requestId: info.id,
+        method: info.method,
+        path: info.path,
+        status: aborted ? 499 : res.statusCode,
+        durationMs: Math.round((performance.now() - info.startedAt) * 10) / 10,
+        ...(Number.isFinite(bytes) ? { bytes } : {}),
+        ...(info.userId ? { userId: info.userId } : {}),
+        client: info.clientAddress,
+        ...(aborted ? { aborted: true } : {}),
+      });
+    };
+    res.once("finish", () => done(false));
+    res.once("close", () => done(!res.writableFinished));
+    runWithRequest(info, next);
+  };
+}
+
+/** The build's static files: hashed assets (immutable) and the few files at the client root; nothing else is looked up. */
+function staticFiles(clientDir: string, https: boolean): RequestHandler {
+  const headers = commonSecurityHeaders({ https });
+  const setHeaders = (res: ExpressResponse) => {
+    for (const [name, value] of headers) res.setHeader(name, value);
+  };
+  const assets = express.static(path.join(clientDir, "assets"), {
+    immutable: true,
+    maxAge: "1y",
+    index: false,
+    fallthrough: false,
+    setHeaders,
+  });
+  const rootFiles = new Set(
+    readdirSync(clientDir, { withFileTypes: true })
+      .filter((entry) => entry.isFile())
+      .map((entry) => `/${entry.name}`),
+  );
+  const root = express.static(clientDir, { maxAge: "1h", index: false, setHeaders });
+  return (req, res, next) => {
+    if (req.method !== "GET" && req.method !== "HEAD") return next();
+    if (req.path.startsWith("/assets/")) {
+      req.url = req.url.slice("/assets".length);
+      return assets(req, res, next);
+    }
+    if (rootFiles.has(req.path)) return root(req, res, next);
+    next();
+  };
+}
+
+/** Node's request as a web Request, with APP_URL's origin (the Host header is never trusted for URLs). */
+function toWebRequest(req: ExpressRequest, res: ExpressResponse, origin: string): Request {
+  const controller = new AbortController();
+  res.once("close", () => {
+    if (!res.writableFinished) controller.abort();
+  });
+  const headers = new Headers();
+  for (let i = 0; i < req.rawHeaders.length; i += 2) {
+    try {
+      headers.append(req.rawHeaders[i], req.rawHeaders[i + 1]);
+    } catch {
+      // A header value the fetch API refuses (Node is more lenient) is dropped rather than failing the request.
+    }
+  }
+  const url = new URL(req.originalUrl ?? req.url, origin);
+  const init: RequestInit & { duplex?: "half" } = { method: req.method, headers, signal: controller.signal };
+  if (req.method !== "GET" && req.method !== "HEAD") {
+    init.body = createReadableStreamFromReadable(req);
+    init.duplex = "half";
+  }
+  return new Request(url, init);
+}
+
+async function sendWebResponse(res: ExpressResponse, response: Response, method: string): Promise<void> {
+  if (res.destroyed || res.writableEnded) {
+    await response.body?.cancel().catch(() => {});
+    return;
+  }
+  res.statusCode = response.status;
+  if (response.statusText) res.statusMessage = response.statusText;
+  for (const [name, value] of response.headers) if (name !== "set-cookie") res.setHeader(name, value);
+  const cookies = response.headers.getSetCookie();
+  if (cookies.length > 0) res.setHeader("Set-Cookie", cookies);
+  if (!response.body || method === "HEAD") {
+    await response.body?.cancel().catch(() => {});
+    res.end();
+    return;
+  }
+  try {
+    await writeReadableStreamToWritable(response.body, res);
+  } catch (error) {
+    if (!res.destroyed) throw error;
+  }
+}
+
+/** The Express app: request context and log, compression, static files, then the app itself. */
+export function createApp(options: AppOptions): express.Express {
+  const config = env(); // fails fast, naming what is missing
+  const https = config.appOrigin.startsWith("https:");
+  const handle = createFetchHandler({ build: options.loadBuild ?? (builtApp as unknown as ServerBuild), mode: options.mode });
+  const app = express();
+  app.disable("x-powered-by");
+  app.use(requestContext(config.TRUST_PROXY));
+  app.use(compression());
+  if (options.assets) app.use(options.assets);
+  if (options.clientDir) app.use(staticFiles(options.clientDir, https));
+  app.use(async (req: ExpressRequest, res: ExpressResponse, next: NextFunction) => {
+    try {
+      const request = toWebRequest(req, res, config.appOrigin);
+      await sendWebResponse(res, await handle(request), req.method);
+    } catch (error) {
+      next(error);
+    }
+  });
+  // Last resort for an error in the layers above (a malformed URL, a socket that broke mid-answer).
+  app.use(async (error: unknown, req: ExpressRequest, res: ExpressResponse, _next: NextFunction) => {
+    logError("the server failed to answer", error);
+    if (res.headersSent) return void res.destroy();
+    const status = (error as { status?: unknown }).status;
+    const code = typeof status === "number" && status >= 400 && status < 500 ? status : 500;
+    const message =
+      code === 500 ? "Something went wrong on our side. It was logged; try again in a moment." : "That request was not understood.";
+    const request = new Request(new URL(pathnameOf(req.url).replace(/^\/*/, "/"), config.appOrigin));
+    await sendWebResponse(res, await finishResponse(refusal(request, code, message), { https }), req.method);
+  });
+  return app;
+}
+
+/** Closes the app's database pool (after the HTTP server stopped taking requests). */
+export async function shutdown(): Promise<void> {
+  await db().$client.end();
+}
