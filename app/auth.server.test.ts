@@ -131,4 +131,34 @@ describe("production configuration", () => {
     expect(`${location.origin}${location.pathname}`).toBe("https://github.com/login/oauth/authorize");
     expect(location.searchParams.get("scope")).toBe("read:user user:email");
   });
+
+  it("signs a person in through the stock client's own code exchange and profile calls, answered by the stand-in", async () => {
+    // The production path, unchanged: remix-auth-github's strategy with arctic's GitHub client (github.com's URLs
+    // built in) and our profile reader on api.github.com. Only the network is redirected, at fetch: github.com and
+    // api.github.com go to the stand-in, and anything else off this machine fails the test.
+    const realFetch = globalThis.fetch;
+    const calls: string[] = [];
+    globalThis.fetch = async (input: RequestInfo | URL, init?: RequestInit) => {
+      const request = new Request(input, init);
+      const url = new URL(request.url);
+      const base = url.origin === "https://github.com" ? fake.url : url.origin === "https://api.github.com" ? fake.apiUrl : null;
+      if (base) calls.push(`${request.method} ${url.origin}${url.pathname}`);
+      if (!base && url.hostname !== "127.0.0.1") throw new Error(`the test allows no request to ${url.origin}`);
+      if (!base) return realFetch(request);
+      const body = request.method === "GET" || request.method === "HEAD" ? undefined : await request.arrayBuffer();
+      return realFetch(`${base}${url.pathname}${url.search}`, { method: request.method, headers: request.headers, body });
+    };
+    try {
+      const auth = createAuthenticator(db, config({ GITHUB_OAUTH_URL: undefined, GITHUB_API_URL: undefined }));
+      const { location, cookie } = await start(auth);
+      // The person chooses at the (stand-in's) authorize page, as a browser would after the redirect to github.com.
+      const standIn = new URL(`${fake.url}${location.pathname}${location.search}`);
+      const callback = await choose(standIn, { login: demoPerson("owner").login });
+      const user = await auth.authenticate("github", new Request(callback, { headers: { Cookie: cookie } }));
+      expect(user).toMatchObject({ login: demoPerson("owner").login, githubId: demoPerson("owner").githubId });
+      expect(calls).toEqual(["POST https://github.com/login/oauth/access_token", "GET https://api.github.com/user"]);
+    } finally {
+      globalThis.fetch = realFetch;
+    }
+  });
 });

@@ -62,7 +62,7 @@ export const targetProfileInput = z.object({
   halfTurn: z.enum(HALF_TURNS, { error: `Half-turn must be one of ${HALF_TURNS.join(", ")}.` }),
   edges: z.enum(EDGES, { error: `Edges must be one of ${EDGES.join(", ")}.` }),
   columnGroup: whole(1, LIMITS.canvas.max, "Column group"),
-  dialects: z.array(z.string().trim().min(1).max(32)).max(16).default([]),
+  dialects: z.array(nameText("export dialect", 32)).max(16, "Choose at most 16 export dialects.").default([]),
   labelPrefix: z
     .string()
     .trim()

@@ -186,3 +186,59 @@ describe("createTargetProfile (through the factory)", () => {
     await expect(makeTargetProfile(db, { team, name: "title SCREEN" })).rejects.toMatchObject({ field: "name", status: 409 });
   });
 });
+
+describe("effects under races and stale copies", () => {
+  it("gives twenty duplicates made at the same moment twenty copies with distinct names", async () => {
+    const { owner, project } = await setup();
+    const source = await makeEffect(db, { project, actor: owner, name: "Beam" });
+    const copies = await Promise.all(Array.from({ length: 20 }, () => duplicateEffect(db, { effectId: source.id, actorId: owner.id })));
+    const names = copies.map((c) => c.name);
+    expect(new Set(names).size).toBe(20);
+    expect(names.sort()).toEqual(["Beam copy", ...Array.from({ length: 19 }, (_, i) => `Beam copy ${i + 2}`)].sort());
+    expect(await listEffects(db, project.id)).toHaveLength(21);
+  });
+
+  it("refuses a rename from a stale version, and lets exactly one of many renames from one version win", async () => {
+    const { owner, project } = await setup();
+    const effect = await makeEffect(db, { project, actor: owner, name: "Sweep" });
+    for (const version of [1, 2, 3, 4]) {
+      const names = Array.from({ length: 6 }, (_, i) => `Sweep ${version}.${i}`);
+      const results = await Promise.allSettled(
+        names.map((name) => renameEffect(db, { effectId: effect.id, name, expectedVersion: version, actorId: owner.id })),
+      );
+      const won = results.flatMap((r, i) => (r.status === "fulfilled" ? [names[i]] : []));
+      expect(won, `from version ${version}`).toHaveLength(1);
+      for (const r of results) if (r.status === "rejected") expect(r.reason).toMatchObject({ status: 409, field: "name" });
+      expect(await getEffect(db, effect.id)).toMatchObject({ name: won[0], version: version + 1 });
+    }
+    await expect(renameEffect(db, { effectId: effect.id, name: "Old copy", expectedVersion: 2, actorId: owner.id })).rejects.toThrow(
+      /Someone changed this effect after you opened it \(it is now “Sweep 4\.\d”, version 5; you started from version 2\)/,
+    );
+  });
+
+  it("keeps every document save or refuses it: parallel saves from one version leave exactly one winner, nothing lost unseen", async () => {
+    const { owner, project } = await setup();
+    const effect = await makeEffect(db, { project, actor: owner });
+    let version = effect.version;
+    for (let round = 0; round < 3; round++) {
+      const frames = [8, 16, 24, 32, 40];
+      const results = await Promise.allSettled(
+        frames.map((n) =>
+          saveEffectDocument(db, {
+            effectId: effect.id,
+            document: { canvas: { width: 32, height: 32 }, pivot: { x: 16, y: 16 }, angles: { sweep: { from: 0, to: 360, frames: n } } },
+            expectedVersion: version,
+            actorId: owner.id,
+          }),
+        ),
+      );
+      const winners = results.flatMap((r, i) => (r.status === "fulfilled" ? [frames[i]] : []));
+      expect(winners).toHaveLength(1);
+      for (const r of results) if (r.status === "rejected") expect(r.reason).toMatchObject({ status: 409 });
+      const now = (await getEffect(db, effect.id))!;
+      expect(now.version).toBe(version + 1);
+      expect((now.document.angles as { sweep: { frames: number } }).sweep.frames).toBe(winners[0]);
+      version = now.version;
+    }
+  });
+});

@@ -134,3 +134,23 @@ describe("listProjects", () => {
     expect((await listProjectsForUser(db, a.id)).map((p) => p.id)).toEqual([pa.id]);
   });
 });
+
+describe("updateProject refuses a stale version", () => {
+  it("lets exactly one of many saves from one version win and refuses the rest with 409", async () => {
+    const { owner, team } = await teamWithOwner();
+    const project = await createProject(db, { teamId: team.id, name: "Docks", actorId: owner.id });
+    const texts = Array.from({ length: 8 }, (_, i) => `Description ${i}`);
+    const results = await Promise.allSettled(
+      texts.map((description) =>
+        updateProject(db, { projectId: project.id, name: "Docks", description, expectedVersion: 1, actorId: owner.id }),
+      ),
+    );
+    const won = results.flatMap((r, i) => (r.status === "fulfilled" ? [texts[i]] : []));
+    expect(won).toHaveLength(1);
+    for (const r of results) if (r.status === "rejected") expect(r.reason).toMatchObject({ status: 409, field: "form" });
+    const [listed] = await listProjects(db, team.id);
+    expect(listed.description).toBe(won[0]);
+    const described = (await listActivity(db, { teamId: team.id, projectId: project.id })).filter((a) => a.action === "project.described");
+    expect(described).toHaveLength(1);
+  });
+});
