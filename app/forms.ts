@@ -63,6 +63,8 @@ export const changeRoleForm = z.object({
 
 export const memberForm = z.object({ userId: id("member") });
 
+export const restoreProjectForm = z.object({ projectId: id("project") });
+
 export const projectForm = z.object({
   name: name("project"),
   description: descriptionText(),

@@ -12,7 +12,7 @@
 import { performance } from "node:perf_hooks";
 import { readdirSync } from "node:fs";
 import path from "node:path";
-import { createReadableStreamFromReadable, writeReadableStreamToWritable } from "@react-router/node";
+import { writeReadableStreamToWritable } from "@react-router/node";
 import compression from "compression";
 import express, { type NextFunction, type Request as ExpressRequest, type RequestHandler, type Response as ExpressResponse } from "express";
 import type { ServerBuild } from "react-router";
@@ -113,6 +113,63 @@ function staticFiles(clientDir: string, https: boolean): RequestHandler {
   };
 }
 
+/**
+ * The request body as a web stream, with backpressure. Unlike the framework's adapter, giving up on it (a reader
+ * that stops at a size limit) drops the rest instead of destroying the socket, so the refusal can still be sent;
+ * settleUnreadBody decides whether the connection stays open.
+ */
+function requestBody(req: ExpressRequest, res: ExpressResponse): ReadableStream<Uint8Array> {
+  const drop = () => {
+    req.off("data", onData);
+    req.on("data", () => {});
+    req.resume();
+  };
+  // settleUnreadBody drops what is left once the answer is out.
+  res.locals.dropBody = drop;
+  const onData = (chunk: Buffer) => {
+    try {
+      controller.enqueue(new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength));
+      if ((controller.desiredSize ?? 0) <= 0) req.pause();
+    } catch {
+      // Already closed or cancelled.
+    }
+  };
+  let controller!: ReadableStreamDefaultController<Uint8Array>;
+  return new ReadableStream<Uint8Array>(
+    {
+      start(c) {
+        controller = c;
+        req.on("data", onData);
+        req.once("end", () => {
+          try {
+            controller.close();
+          } catch {
+            // Cancelled before the end.
+          }
+        });
+        const broken = () => {
+          try {
+            controller.error(new Error("The client stopped sending the request body."));
+          } catch {
+            // Ended or cancelled already.
+          }
+        };
+        req.once("error", broken);
+        req.once("close", () => {
+          if (!req.complete) broken();
+        });
+      },
+      pull() {
+        req.resume();
+      },
+      cancel() {
+        drop();
+      },
+    },
+    { highWaterMark: 64 * 1024, size: (chunk) => chunk.byteLength },
+  );
+}
+
 /** Node's request as a web Request, with APP_URL's origin (the Host header is never trusted for URLs). */
 function toWebRequest(req: ExpressRequest, res: ExpressResponse, origin: string): Request {
   const controller = new AbortController();
@@ -130,17 +187,41 @@ function toWebRequest(req: ExpressRequest, res: ExpressResponse, origin: string)
   const url = new URL(req.originalUrl ?? req.url, origin);
   const init: RequestInit & { duplex?: "half" } = { method: req.method, headers, signal: controller.signal };
   if (req.method !== "GET" && req.method !== "HEAD") {
-    init.body = createReadableStreamFromReadable(req);
+    init.body = requestBody(req, res);
     init.duplex = "half";
   }
   return new Request(url, init);
 }
 
-async function sendWebResponse(res: ExpressResponse, response: Response, method: string): Promise<void> {
+/** A request body left unread (a refusal made before reading it) is read and dropped up to this size, keeping the connection. */
+const DRAIN_MAX_BYTES = 1024 * 1024;
+
+/**
+ * After an answer that did not read the whole request body: drop the rest when it is small, so the connection can
+ * serve the next request; otherwise close the connection rather than read an attacker's gigabytes.
+ */
+function settleUnreadBody(req: ExpressRequest, res: ExpressResponse): void {
+  if (req.complete || req.method === "GET" || req.method === "HEAD") return;
+  const declared = Number(req.headers["content-length"]);
+  if (Number.isFinite(declared) && declared <= DRAIN_MAX_BYTES) {
+    const drop = res.locals.dropBody as (() => void) | undefined;
+    if (drop) drop();
+    else {
+      req.on("data", () => {});
+      req.resume();
+    }
+  } else {
+    if (!res.headersSent) res.setHeader("Connection", "close");
+    res.once("finish", () => req.destroy());
+  }
+}
+
+async function sendWebResponse(res: ExpressResponse, response: Response, method: string, req?: ExpressRequest): Promise<void> {
   if (res.destroyed || res.writableEnded) {
     await response.body?.cancel().catch(() => {});
     return;
   }
+  if (req) settleUnreadBody(req, res);
   res.statusCode = response.status;
   if (response.statusText) res.statusMessage = response.statusText;
   for (const [name, value] of response.headers) if (name !== "set-cookie") res.setHeader(name, value);
@@ -172,7 +253,7 @@ export function createApp(options: AppOptions): express.Express {
   app.use(async (req: ExpressRequest, res: ExpressResponse, next: NextFunction) => {
     try {
       const request = toWebRequest(req, res, config.appOrigin);
-      await sendWebResponse(res, await handle(request), req.method);
+      await sendWebResponse(res, await handle(request), req.method, req);
     } catch (error) {
       next(error);
     }
@@ -186,7 +267,7 @@ export function createApp(options: AppOptions): express.Express {
     const message =
       code === 500 ? "Something went wrong on our side. It was logged; try again in a moment." : "That request was not understood.";
     const request = new Request(new URL(pathnameOf(req.url).replace(/^\/*/, "/"), config.appOrigin));
-    await sendWebResponse(res, await finishResponse(refusal(request, code, message), { https }), req.method);
+    await sendWebResponse(res, await finishResponse(refusal(request, code, message), { https }), req.method, req);
   });
   return app;
 }

@@ -40,6 +40,7 @@ import {
   parseForm,
   projectForm,
   renameTeamForm,
+  restoreProjectForm,
   type ActionResult,
 } from "../forms.ts";
 import { requireTeamRole } from "../guards.server.ts";
@@ -89,7 +90,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     case "restore-project": {
       requireAtLeast(role, "editor");
-      const projectId = formText(form, "projectId");
+      const parsedId = parseForm(restoreProjectForm, form);
+      if (!parsedId.ok) return invalid(intent, parsedId.errors, 400, formText(form, "projectId"));
+      const projectId = parsedId.data.projectId;
       const owned = (await listProjects(db(), team.id, { archived: true })).some((p) => p.id === projectId);
       if (!owned) return invalid(intent, { form: "That archived project is not in this team." }, 404, projectId);
       return attempt(intent, () => restoreProject(db(), { projectId, actorId: user.id }), projectId);

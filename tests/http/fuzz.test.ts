@@ -1,0 +1,173 @@
+/**
+ * Every form action the app has, fuzzed (tests/support/fuzz.ts says how; add new forms and API bodies to TARGETS).
+ * Per target: SKEWSMITH_FUZZ_RUNS cases (default 60), each a 4xx with a message and no change to the database;
+ * and one control request with the valid body, which must be accepted, so a broken body is what was refused.
+ */
+import fc from "fast-check";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { EDGES, HALF_TURNS, ROUNDINGS } from "@skewsmith/core";
+import { createDb } from "../../app/db/client.server.ts";
+import { ROLES } from "../../app/roles.ts";
+import { encodeCase, fuzzCases, messageOf, validEntries, type FuzzTarget } from "../support/fuzz.ts";
+import { makeWorld, snapshot, type World } from "../support/world.ts";
+
+const RUNS = Number(process.env.SKEWSMITH_FUZZ_RUNS ?? 60);
+
+export const TARGETS: FuzzTarget[] = [
+  { name: "home (no action)", path: () => "/", bodyOnly: true, intent: "create-team" },
+  {
+    name: "new team: create-team",
+    path: () => "/teams/new",
+    intent: "create-team",
+    fields: { name: { kind: "name", valid: "Fuzzed crew" } },
+  },
+  {
+    name: "team: create-project",
+    path: (w) => `/teams/${w.team.id}`,
+    intent: "create-project",
+    fields: { name: { kind: "name", valid: "Fuzzed level" }, description: { kind: "description", valid: "A level.", optional: true } },
+  },
+  {
+    name: "team: restore-project",
+    path: (w) => `/teams/${w.team.id}`,
+    intent: "restore-project",
+    fields: { projectId: { kind: "uuid", valid: (w) => w.archived.id, foreign: (w) => w.foreign.project.id } },
+  },
+  {
+    name: "team: create-profile",
+    path: (w) => `/teams/${w.team.id}`,
+    intent: "create-profile",
+    fields: {
+      name: { kind: "name", valid: "Fuzzed profile" },
+      description: { kind: "description", valid: "", optional: true },
+      canvasWidth: { kind: "int", valid: "256", min: 1, max: 4096 },
+      canvasHeight: { kind: "int", valid: "224", min: 1, max: 4096 },
+      fixedPointBits: { kind: "enum", valid: "16", values: ["8", "16", "32"] },
+      fixedPointFraction: { kind: "int", valid: "8", min: 0, max: 15 },
+      rounding: { kind: "enum", valid: "nearest-away", values: ROUNDINGS },
+      halfTurn: { kind: "enum", valid: "flip", values: HALF_TURNS },
+      edges: { kind: "enum", valid: "wrap", values: EDGES },
+      columnGroup: { kind: "int", valid: "1", min: 1, max: 4096 },
+      labelPrefix: { kind: "token", valid: "rot_", optional: true },
+    },
+  },
+  {
+    name: "team: rename-team",
+    path: (w) => `/teams/${w.team.id}`,
+    intent: "rename-team",
+    fields: { name: { kind: "name", valid: "Renamed by the fuzzer" }, version: { kind: "version", valid: (w) => String(w.team.version) } },
+  },
+  {
+    name: "team: change-role",
+    path: (w) => `/teams/${w.team.id}`,
+    intent: "change-role",
+    fields: {
+      userId: { kind: "uuid", valid: (w) => w.viewer.id, foreign: (w) => w.stranger.id },
+      role: { kind: "enum", valid: "editor", values: ROLES },
+    },
+  },
+  {
+    name: "team: remove-member",
+    path: (w) => `/teams/${w.team.id}`,
+    intent: "remove-member",
+    fields: { userId: { kind: "uuid", valid: (w) => w.viewer.id, foreign: (w) => w.stranger.id } },
+  },
+  { name: "team: leave-team", path: (w) => `/teams/${w.team.id}`, intent: "leave-team", as: "editor" },
+  {
+    name: "project: update-project",
+    path: (w) => `/projects/${w.project.id}`,
+    intent: "update-project",
+    fields: {
+      name: { kind: "name", valid: "Fuzzed project" },
+      description: { kind: "description", valid: "Changed.", optional: true },
+      version: { kind: "version", valid: (w) => String(w.project.version) },
+    },
+  },
+  { name: "project: archive-project", path: (w) => `/projects/${w.project.id}`, intent: "archive-project" },
+  { name: "project: restore-project", path: (w) => `/projects/${w.archived.id}`, intent: "restore-project" },
+  {
+    name: "project: create-effect",
+    path: (w) => `/projects/${w.project.id}`,
+    intent: "create-effect",
+    fields: {
+      name: { kind: "name", valid: "Fuzzed effect" },
+      targetProfileId: { kind: "uuid", valid: (w) => w.profile.id, optional: true },
+    },
+  },
+  {
+    name: "project: rename-effect",
+    path: (w) => `/projects/${w.project.id}`,
+    intent: "rename-effect",
+    fields: {
+      effectId: { kind: "uuid", valid: (w) => w.effect.id, foreign: (w) => w.foreign.effect.id },
+      name: { kind: "name", valid: "Fuzzed name" },
+      version: { kind: "version", valid: (w) => String(w.effect.version) },
+    },
+  },
+  ...(["duplicate-effect", "delete-effect"] as const).map((intent): FuzzTarget => ({
+    name: `project: ${intent}`,
+    path: (w) => `/projects/${w.project.id}`,
+    intent,
+    fields: { effectId: { kind: "uuid", valid: (w) => w.effect.id, foreign: (w) => w.foreign.effect.id } },
+  })),
+  {
+    name: "project: restore-effect",
+    path: (w) => `/projects/${w.project.id}`,
+    intent: "restore-effect",
+    fields: { effectId: { kind: "uuid", valid: (w) => w.deleted.id, foreign: (w) => w.foreign.effect.id } },
+  },
+  { name: "effect (no action)", path: (w) => `/effects/${w.effect.id}`, bodyOnly: true, intent: "rename-effect" },
+  { name: "sign-out", path: () => "/sign-out", bodyOnly: true },
+  { name: "sign-in start (auth/github)", path: () => "/auth/github", bodyOnly: true },
+  { name: "mailbox: send-test", path: () => "/dev/mailbox", intent: "send-test" },
+];
+
+const db = createDb(process.env.DATABASE_URL!, { max: 4 });
+let world: World;
+const totals = { cases: 0, fiveHundreds: 0 };
+
+beforeAll(async () => {
+  world = await makeWorld(db, inject("appUrl"), inject("githubUrl"));
+});
+afterAll(async () => {
+  console.log(`fuzz: ${totals.cases} cases over ${TARGETS.length} targets, ${totals.fiveHundreds} answered 5xx`);
+  await db.$client.end();
+});
+
+describe.each(TARGETS)("fuzzing $name", (target) => {
+  it(`answers ${RUNS} broken bodies with a 4xx and a message, and changes nothing`, async () => {
+    const before = await snapshot(db, world);
+    const person = world.as[target.as ?? "owner"];
+    await fc.assert(
+      fc.asyncProperty(fuzzCases(target, world), async (c) => {
+        totals.cases += 1;
+        const path = target.path(world);
+        const { body, headers } = encodeCase(c);
+        const response = await person.fetch(c.mode === "data" ? `${path}.data` : path, { method: "POST", body, headers });
+        if (response.status >= 500) totals.fiveHundreds += 1;
+        const message = await messageOf(response, c.mode);
+        const where = `${c.mode} POST ${target.name} with ${c.broken}: ${response.status} ${JSON.stringify(message)}`;
+        expect(response.status, where).toBeGreaterThanOrEqual(400);
+        expect(response.status, where).toBeLessThan(500);
+        expect(message, where).toBeTruthy();
+        expect(await snapshot(db, world), `the database changed after ${where}`).toBe(before);
+      }),
+      { numRuns: RUNS },
+    );
+  });
+});
+
+describe("the fuzzer's valid bodies (the control: what the cases break was acceptable)", () => {
+  it("accepts the valid body of every target that changes something", async () => {
+    // A world of its own, so the changes these make do not touch the fuzzed one.
+    const control = await makeWorld(db, inject("appUrl"), inject("githubUrl"));
+    const changing = TARGETS.filter((t) => !t.bodyOnly && t.intent !== "leave-team" && t.intent !== "send-test");
+    // Archiving last: an archived project takes no further change.
+    const ordered = [...changing.filter((t) => t.intent !== "archive-project"), ...changing.filter((t) => t.intent === "archive-project")];
+    for (const target of ordered) {
+      const params = validEntries(target, control).filter((e): e is [string, string] => typeof e[1] === "string");
+      const response = await control.as[target.as ?? "owner"].post(target.path(control), params);
+      expect(response.status, `${target.name}: ${(await response.clone().text()).slice(0, 300)}`).toBeLessThan(400);
+    }
+  });
+});

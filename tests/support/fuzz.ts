@@ -1,0 +1,323 @@
+/**
+ * A property-based fuzzer for form actions (and, later, API bodies), with fast-check.
+ *
+ * Every case starts from a body the target would accept and breaks it: one or more fields get a value of the
+ * wrong type, a huge or negative or NaN number, a 100 kB string, control or bidirectional characters inside
+ * unicode text, a file where text belongs, a second copy, or go missing; or the whole body is the wrong kind
+ * (JSON, plain text, broken multipart, no Content-Type, too large). It is posted as a person with every right to
+ * make the change, as a page would (document) or as the app's own scripts do (`.data`). Each case must be
+ * answered with a 4xx that carries a message for the person, never a 500, and must leave the database exactly as
+ * it was (`snapshot` in world.ts fingerprints every row the world owns).
+ *
+ * ADDING A FORM OR AN API BODY (phase 2): append a `FuzzTarget` to the list in tests/http/fuzz.test.ts:
+ *
+ *   {
+ *     name: "project: upload-sprite",                 // shown in the test name
+ *     path: (w) => `/projects/${w.project.id}`,        // where the form posts
+ *     intent: "upload-sprite",                         // the form's intent (omit for forms without one)
+ *     fields: {                                        // every field the action reads, with its kind (below)
+ *       name: { kind: "name", valid: "emblem.png" },
+ *       file: { kind: "file", valid: (w) => pngBytes },
+ *     },
+ *   }
+ *
+ * Kinds: "name" and "description" (the shared text rules), "uuid" (an id; also gets ids of things in another team
+ * and of nothing), "version", "int" (with `min`/`max`), "enum" (with `values`), "file", "token". Put `optional: true`
+ * on a field the action may go without (it is then never "broken" by leaving it out). `body: "json"` makes the
+ * target an API body: fields are sent as one JSON object (wrong types then include numbers as strings, objects,
+ * arrays and null), and the answer must be JSON `{ error: { message } }`. `bodyOnly: true` fuzzes only the body's
+ * kind (for forms whose fields cannot be wrong, such as sign-out). The world has one of everything (world.ts);
+ * add what a new form needs there.
+ */
+import fc from "fast-check";
+import { UNSAFE_decodeViaTurboStream as decodeViaTurboStream } from "react-router";
+import type { World } from "./world.ts";
+
+export type FieldSpec =
+  | { kind: "name" | "description" | "token"; valid: string | ((w: World) => string); optional?: boolean }
+  | { kind: "uuid"; valid: (w: World) => string; foreign?: (w: World) => string; optional?: boolean }
+  | { kind: "version"; valid: (w: World) => string; optional?: boolean }
+  | { kind: "int"; valid: string; min: number; max: number; optional?: boolean }
+  | { kind: "enum"; valid: string; values: readonly string[]; optional?: boolean }
+  | { kind: "file"; valid: (w: World) => Uint8Array; optional?: boolean };
+
+export interface FuzzTarget {
+  name: string;
+  path: (w: World) => string;
+  intent?: string;
+  fields?: Record<string, FieldSpec>;
+  /** Only the body's kind is broken (the fields cannot be wrong). */
+  bodyOnly?: boolean;
+  /** An API body (JSON) rather than a form. */
+  body?: "form" | "json";
+  /** Who posts: the owner unless said. */
+  as?: keyof World["as"];
+}
+
+type Value = string | { file: Uint8Array; filename: string };
+type Entries = [string, Value][];
+
+export interface FuzzCase {
+  mode: "document" | "data";
+  broken: string;
+  body: { kind: "entries"; entries: Entries; multipart: boolean } | { kind: "raw"; contentType: string | null; bytes: Uint8Array | string };
+}
+
+const KB100 = "é".repeat(50_000); // 100 kB of UTF-8
+const CONTROLS = ["\u0000", "\u0007", "\u001b", "\u007f", "\u0085", "\u009b", "\t", "\n", "\r", "\u000b"];
+const BIDI = ["\u202e", "\u202d", "\u2066", "\u2067", "\u2068", "\u2069", "\u200f", "\u061c"];
+const text = (s: string): Value => s;
+const uuidOfNothing = "00000000-0000-4000-8000-000000000000";
+
+/** Unicode text with a character the shared text rule refuses, placed between two visible characters. */
+function poisoned(refused: string[]): fc.Arbitrary<string> {
+  return fc
+    .tuple(
+      fc.string({ unit: "grapheme", minLength: 0, maxLength: 30 }),
+      fc.constantFrom(...refused),
+      fc.string({ unit: "grapheme", maxLength: 30 }),
+    )
+    .map(([a, c, b]) => `x${a}${c}${b}y`);
+}
+
+/** Values a field of this kind must refuse (never a valid one: each arbitrary here is wrong by construction). */
+function wrongValues(spec: FieldSpec, w: World): fc.Arbitrary<Value[] | null> {
+  const one = (a: fc.Arbitrary<string>) => a.map((v) => [text(v)]);
+  const file = fc.constant([{ file: new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0, 1, 2]), filename: "x.bin" } as Value]);
+  const twice = fc.constant(null).map(() => {
+    const valid = validValue(spec, w);
+    return [valid, valid];
+  });
+  const common = [file, twice];
+  switch (spec.kind) {
+    case "name":
+      return fc.oneof(
+        one(fc.constantFrom("", "   ", "\t\n ", "x".repeat(81), KB100)),
+        one(poisoned([...CONTROLS.filter((c) => c.trim() !== ""), "\t", "\n", ...BIDI])),
+        ...common,
+      );
+    case "description":
+      return fc.oneof(
+        one(fc.constantFrom("x".repeat(2001), KB100)),
+        one(poisoned(CONTROLS.filter((c) => !"\t\n\r".includes(c)))),
+        ...common,
+      );
+    case "token":
+      return fc.oneof(one(fc.constantFrom("", KB100, "\u0000", "../../etc/passwd")), ...common);
+    case "uuid":
+      return fc.oneof(
+        one(
+          fc.constantFrom("", "not-a-uuid", "../../etc/passwd", uuidOfNothing, `${uuidOfNothing}\u0000`, KB100, "__proto__", "constructor"),
+        ),
+        ...(spec.foreign ? [one(fc.constant(spec.foreign(w)))] : []),
+        ...common,
+      );
+    case "version":
+      return fc.oneof(
+        one(fc.constantFrom("", "0", "-1", "1.5", "NaN", "Infinity", "-Infinity", "1e308", "99999999999999999999", "abc", "0x", KB100)),
+        // A version the thing is not at: someone else's change came first.
+        one(
+          fc
+            .integer({ min: 1, max: 2_000_000_000 })
+            .filter((v) => String(v) !== validValue(spec, w))
+            .map(String),
+        ),
+        ...common,
+      );
+    case "int":
+      return fc.oneof(
+        one(fc.constantFrom("", "NaN", "Infinity", "1e308", "-0.5", "1.5", "abc", "9".repeat(400), KB100)),
+        one(fc.integer({ min: -1e9, max: spec.min - 1 }).map(String)),
+        one(fc.integer({ min: spec.max + 1, max: 2e9 }).map(String)),
+        ...common,
+      );
+    case "enum":
+      return fc.oneof(
+        one(fc.constantFrom("", "__proto__", "constructor", "toString", KB100)),
+        one(fc.string({ maxLength: 20 }).filter((v) => !spec.values.includes(v.trim()))),
+        ...common,
+      );
+    case "file":
+      return fc.oneof(one(fc.constantFrom("", "not a file", KB100)), twice);
+  }
+}
+
+function validValue(spec: FieldSpec, w: World): Value {
+  if (spec.kind === "file") return { file: spec.valid(w), filename: "sprite.png" };
+  return typeof spec.valid === "function" ? spec.valid(w) : spec.valid;
+}
+
+/** The body the target accepts, as form entries. */
+export function validEntries(target: FuzzTarget, w: World): Entries {
+  const entries: Entries = target.intent ? [["intent", target.intent]] : [];
+  for (const [name, spec] of Object.entries(target.fields ?? {})) entries.push([name, validValue(spec, w)]);
+  return entries;
+}
+
+const encoder = new TextEncoder();
+
+/** Cases for one target: broken fields, broken intents, or a body of the wrong kind. */
+export function fuzzCases(target: FuzzTarget, w: World): fc.Arbitrary<FuzzCase> {
+  const mode = fc.constantFrom<FuzzCase["mode"]>("document", "data");
+  const valid = validEntries(target, w);
+  const asJson = JSON.stringify(Object.fromEntries(valid.map(([k, v]) => [k, typeof v === "string" ? v : "<file>"])));
+  const urlencoded = new URLSearchParams(valid.filter(([, v]) => typeof v === "string") as [string, string][]).toString();
+  const wrongBody = fc.constantFrom<[string, FuzzCase["body"]]>(
+    ["a JSON body", { kind: "raw", contentType: "application/json", bytes: asJson }],
+    ["plain text", { kind: "raw", contentType: "text/plain", bytes: urlencoded }],
+    ["no Content-Type", { kind: "raw", contentType: null, bytes: urlencoded }],
+    [
+      "broken multipart",
+      {
+        kind: "raw",
+        contentType: "multipart/form-data; boundary=xyz",
+        bytes: `--xyz\r\nContent-Disposition: form-data; name="intent"\r\n\r\n${target.intent ?? ""}`,
+      },
+    ],
+    ["multipart without a boundary", { kind: "raw", contentType: "multipart/form-data", bytes: urlencoded }],
+    ["an XML body", { kind: "raw", contentType: "application/xml", bytes: "<intent>x</intent>" }],
+    [
+      "a body over the form limit",
+      { kind: "raw", contentType: "application/x-www-form-urlencoded", bytes: `${urlencoded}&pad=${"x".repeat(300 * 1024)}` },
+    ],
+    ["a body that is not UTF-8", { kind: "raw", contentType: "application/json; charset=utf-16", bytes: encoder.encode("\u00ff\u00fe{") }],
+  );
+  const bodyCases = fc.tuple(mode, wrongBody).map(([m, [broken, body]]) => ({ mode: m, broken, body }) as FuzzCase);
+  if (target.bodyOnly || !target.fields) {
+    if (!target.intent) return bodyCases;
+    const wrongIntent = fc
+      .tuple(mode, fc.constantFrom("", "bogus", "__proto__", "constructor", "hasOwnProperty", KB100, "create-team\u0000"), fc.boolean())
+      .map(
+        ([m, intent, missing]) =>
+          ({
+            mode: m,
+            broken: missing ? "no intent" : `intent ${JSON.stringify(intent.slice(0, 20))}`,
+            body: {
+              kind: "entries",
+              entries: missing ? valid.filter(([k]) => k !== "intent") : valid.map(([k, v]) => [k, k === "intent" ? intent : v]),
+              multipart: false,
+            },
+          }) as FuzzCase,
+      );
+    return fc.oneof(bodyCases, wrongIntent);
+  }
+  const fields = Object.entries(target.fields);
+  const fieldCase = fc
+    .tuple(
+      mode,
+      fc.subarray(fields, { minLength: 1 }),
+      fc.boolean(),
+      fc.array(fc.constantFrom(...fields.map(([k]) => k)), { maxLength: 2 }),
+    )
+    .chain(([m, broken, multipart, shuffle]) =>
+      fc
+        .tuple(
+          ...broken.map(([, spec]) =>
+            fc.oneof(
+              { weight: 6, arbitrary: wrongValues(spec, w) },
+              { weight: spec.optional ? 0 : 1, arbitrary: fc.constant(null) }, // missing
+            ),
+          ),
+        )
+        .map((values) => {
+          const replaced = new Map(broken.map(([name], i) => [name, values[i]]));
+          const entries: Entries = [];
+          for (const [k, v] of valid) {
+            if (!replaced.has(k)) entries.push([k, v]);
+            else for (const x of replaced.get(k) ?? []) entries.push([k, x]);
+          }
+          // Order must not matter: move a few fields to the end.
+          for (const k of shuffle) {
+            const at = entries.findIndex(([name]) => name === k);
+            if (at >= 0) entries.push(...entries.splice(at, 1));
+          }
+          const hasFile = entries.some(([, v]) => typeof v !== "string");
+          const describe = broken
+            .map(([name], i) => {
+              const v = values[i];
+              if (v === null) return `${name} missing`;
+              if (v.length > 1) return `${name} twice`;
+              const x = v[0];
+              return typeof x === "string"
+                ? `${name}=${JSON.stringify(x.length > 24 ? `${x.slice(0, 24)}…(${x.length})` : x)}`
+                : `${name} as a file`;
+            })
+            .join(", ");
+          return { mode: m, broken: describe, body: { kind: "entries", entries, multipart: multipart || hasFile } } as FuzzCase;
+        }),
+    );
+  return fc.oneof({ weight: 4, arbitrary: fieldCase }, { weight: 1, arbitrary: bodyCases });
+}
+
+/** The case as a fetch body and headers. */
+export function encodeCase(c: FuzzCase): { body: BodyInit; headers: Record<string, string> } {
+  if (c.body.kind === "raw") return { body: c.body.bytes, headers: c.body.contentType ? { "Content-Type": c.body.contentType } : {} };
+  if (!c.body.multipart) {
+    const params = new URLSearchParams();
+    for (const [k, v] of c.body.entries) if (typeof v === "string") params.append(k, v);
+    return { body: params.toString(), headers: { "Content-Type": "application/x-www-form-urlencoded" } };
+  }
+  const form = new FormData();
+  for (const [k, v] of c.body.entries)
+    if (typeof v === "string") form.append(k, v);
+    else form.append(k, new Blob([v.file as Uint8Array<ArrayBuffer>]), v.filename);
+  return { body: form, headers: {} };
+}
+
+/** The message an answer carries for the person, if any: from the data, the error page, or a field message. */
+export async function messageOf(response: Response, mode: FuzzCase["mode"]): Promise<string | null> {
+  const type = response.headers.get("Content-Type") ?? "";
+  if (type.includes("application/json")) {
+    const body = (await response.json()) as { error?: { message?: unknown } };
+    return typeof body.error?.message === "string" ? body.error.message : null;
+  }
+  if (mode === "data" && type.includes("text/x-script")) {
+    const decoded = await decodeViaTurboStream(response.body!, globalThis);
+    await decoded.done;
+    return findMessage(decoded.value);
+  }
+  const html = await response.text();
+  const messages = [...html.matchAll(/(?:role="alert"|data-testid="error-message")[^>]*>([^<]+)</g)]
+    .map((m) => m[1].trim())
+    .filter(Boolean);
+  if (messages.length > 0) return messages.join(" | ");
+  // A refusal made before any page (the origin check, say) is a small page of its own.
+  const refusal = /<h1>This request was refused<\/h1><p>([^<]+)</.exec(html);
+  if (refusal) return refusal[1];
+  // The page carries the action's answer in its hydration data even where no field shows it (a hidden field
+  // tampered with, say): decode that, as the browser does.
+  return findMessage(await hydrationData(html));
+}
+
+/** The data a server-rendered page hands to the browser (the framework's turbo-stream chunks in its scripts). */
+export async function hydrationData(html: string): Promise<unknown> {
+  const chunks = [...html.matchAll(/streamController\.enqueue\(("(?:[^"\\]|\\.)*")\);/g)].map((m) => JSON.parse(m[1]) as string);
+  if (chunks.length === 0) return null;
+  const bytes = new TextEncoder().encode(chunks.join(""));
+  const stream = new ReadableStream<Uint8Array>({
+    start(controller) {
+      controller.enqueue(bytes);
+      controller.close();
+    },
+  });
+  const decoded = await decodeViaTurboStream(stream, globalThis);
+  await decoded.done.catch(() => {});
+  return decoded.value;
+}
+
+function findMessage(value: unknown, depth = 0): string | null {
+  if (depth > 8 || value === null || typeof value !== "object") return null;
+  const v = value as Record<string, unknown>;
+  // An error response of the framework's own (a method a route does not take): its data is the explanation.
+  if (typeof v.status === "number" && typeof v.data === "string" && v.data.length > 0) return v.data;
+  if (v.errors && typeof v.errors === "object") {
+    const first = Object.values(v.errors as Record<string, unknown>).find((m) => typeof m === "string" && m.length > 0);
+    if (typeof first === "string") return first;
+  }
+  if (typeof v.message === "string" && v.message.length > 0) return v.message;
+  for (const inner of Object.values(v)) {
+    const found = findMessage(inner, depth + 1);
+    if (found) return found;
+  }
+  return null;
+}
