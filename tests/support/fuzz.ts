@@ -82,9 +82,11 @@ function poisoned(refused: string[]): fc.Arbitrary<string> {
 
 /** Values a field of this kind must refuse (never a valid one: each arbitrary here is wrong by construction). */
 function wrongValues(spec: FieldSpec, w: World): fc.Arbitrary<Value[] | null> {
-  const one = (a: fc.Arbitrary<string>) => a.map((v) => [text(v)]);
-  const file = fc.constant([{ file: new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0, 1, 2]), filename: "x.bin" } as Value]);
-  const twice = fc.constant(null).map(() => {
+  const one = (a: fc.Arbitrary<string>): fc.Arbitrary<Value[]> => a.map((v) => [text(v)]);
+  const file: fc.Arbitrary<Value[]> = fc
+    .constant(null)
+    .map(() => [{ file: new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0, 1, 2]), filename: "x.bin" }]);
+  const twice: fc.Arbitrary<Value[]> = fc.constant(null).map(() => {
     const valid = validValue(spec, w);
     return [valid, valid];
   });
