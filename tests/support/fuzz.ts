@@ -253,7 +253,8 @@ export function fuzzCases(target: FuzzTarget, w: World): fc.Arbitrary<FuzzCase> 
 
 /** The case as a fetch body and headers. */
 export function encodeCase(c: FuzzCase): { body: BodyInit; headers: Record<string, string> } {
-  if (c.body.kind === "raw") return { body: c.body.bytes, headers: c.body.contentType ? { "Content-Type": c.body.contentType } : {} };
+  if (c.body.kind === "raw")
+    return { body: c.body.bytes as BodyInit, headers: c.body.contentType ? { "Content-Type": c.body.contentType } : {} };
   if (!c.body.multipart) {
     const params = new URLSearchParams();
     for (const [k, v] of c.body.entries) if (typeof v === "string") params.append(k, v);
