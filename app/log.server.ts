@@ -40,8 +40,10 @@ export function describeError(error: unknown): Record<string, unknown> {
   const e = error as Error & { code?: unknown; cause?: unknown };
   const out: Record<string, unknown> = { name: e.name, message: e.message, stack: e.stack };
   if (e.code !== undefined) out.code = e.code;
-  if (e.cause !== undefined)
-    out.cause = e.cause instanceof Error ? { name: e.cause.name, message: e.cause.message, stack: e.cause.stack } : String(e.cause);
+  if (e.cause !== undefined) {
+    const cause = e.cause as Error & { code?: unknown };
+    out.cause = cause instanceof Error ? { name: cause.name, message: cause.message, code: cause.code, stack: cause.stack } : String(cause);
+  }
   return out;
 }
 

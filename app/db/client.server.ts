@@ -1,5 +1,6 @@
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import pg from "pg";
+import { log } from "../log.server.ts";
 import * as schema from "./schema.ts";
 
 /** A Drizzle client over a pg pool, with the schema for relational queries. */
@@ -10,11 +11,14 @@ export function createDb(url: string, options: { max?: number } = {}): Db {
   const pool = new pg.Pool({
     connectionString: url,
     max: options.max ?? 10,
+    // A database that does not answer a connection attempt (a network that drops packets) fails the request in
+    // seconds, as a 503, instead of holding it until the client gives up.
+    connectionTimeoutMillis: 5_000,
     // Lets the server process exit on SIGTERM once its HTTP server has closed.
     allowExitOnIdle: true,
   });
   // An idle connection that drops (a database restart, say) must not crash the process; the pool reconnects.
-  pool.on("error", (error) => console.warn(`database connection lost: ${error.message}`));
+  pool.on("error", (error) => log("warn", "database connection lost", { detail: error.message }));
   return drizzle(pool, { schema, casing: "snake_case" });
 }
 

@@ -48,3 +48,36 @@ export async function withFreshDatabase<T>(work: (db: Db, url: string) => Promis
     await admin.end();
   }
 }
+
+/** A brand-new, migrated database on the test server for a test that needs one of its own; `drop()` removes it. */
+export async function createScratchDatabase(prefix = "skewsmith_scratch"): Promise<{ url: string; drop(): Promise<void> }> {
+  const base = new URL(testDatabaseUrl());
+  const name = `${prefix}_${Date.now().toString(36)}_${Math.floor(Math.random() * 1e6)}`;
+  const adminUrl = Object.assign(new URL(base), { pathname: "/postgres" }).toString();
+  const admin = new pg.Client({ connectionString: adminUrl });
+  await admin.connect();
+  try {
+    await admin.query(`create database "${name}"`);
+  } finally {
+    await admin.end();
+  }
+  const url = Object.assign(new URL(base), { pathname: `/${name}` }).toString();
+  const db = createDb(url, { max: 1 });
+  try {
+    await migrate(db, { migrationsFolder: MIGRATIONS });
+  } finally {
+    await db.$client.end();
+  }
+  return {
+    url,
+    async drop() {
+      const client = new pg.Client({ connectionString: adminUrl });
+      await client.connect();
+      try {
+        await client.query(`drop database if exists "${name}" with (force)`);
+      } finally {
+        await client.end();
+      }
+    },
+  };
+}
