@@ -32,7 +32,7 @@ export const CLASH_MESSAGE =
   "Someone else saved a clashing change at the same moment (say, the same name). Nothing of yours was saved; reload and try again.";
 
 /** Seconds a client should wait before trying again while the database is unreachable. */
-const RETRY_AFTER_SECONDS = 5;
+export const RETRY_AFTER_SECONDS = 5;
 
 function isResponse(value: unknown): value is Response {
   return value instanceof Response;

@@ -13,7 +13,7 @@ import { createRequestHandler, type ServerBuild } from "react-router";
 import { env } from "./env.server.ts";
 import { logError } from "./log.server.ts";
 import { currentRequestId } from "./requestContext.server.ts";
-import { hardenBuild } from "./routeErrors.server.ts";
+import { hardenBuild, RETRY_AFTER_SECONDS } from "./routeErrors.server.ts";
 import { checkOrigin, commonSecurityHeaders, RESOURCE_CSP } from "./security.server.ts";
 
 export type BuildSource = ServerBuild | (() => ServerBuild | Promise<ServerBuild>);
@@ -51,6 +51,8 @@ export async function finishResponse(response: Response, options: { https: boole
   if (!headers.has("Content-Security-Policy")) headers.set("Content-Security-Policy", RESOURCE_CSP);
   // Whatever the app answers may be someone's private data; a route that may be cached says so itself.
   if (!headers.has("Cache-Control")) headers.set("Cache-Control", "private, no-store");
+  // A page rendered for a 503 loses the Retry-After its loader's error carried; every 503 says when to come back.
+  if (response.status === 503 && !headers.has("Retry-After")) headers.set("Retry-After", String(RETRY_AFTER_SECONDS));
   const requestId = currentRequestId();
   if (requestId) headers.set("X-Request-Id", requestId);
   let body: BodyInit | null = response.body;
