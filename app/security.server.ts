@@ -57,7 +57,7 @@ export const RESOURCE_CSP = "default-src 'none'; frame-ancestors 'none'; base-ur
  * carry this response's nonce, nothing else (no 'unsafe-inline', no eval). Styles: the built CSS file; `style`
  * attributes (sizes React sets on canvases and previews) are allowed, `<style>` elements are not. Workers may come
  * from this origin or a blob (the effect bench computes off the main thread); images also from data: and blob:
- * URLs (canvas snapshots). Forms post here, or to the sign-in provider (the OAuth start redirects there).
+ * URLs (canvas snapshots), fonts also from data: URLs (the build inlines small ones). Forms post here, or to the sign-in provider (the OAuth start redirects there).
  */
 export function documentCsp(options: { nonce: string; formTargets: string[]; https: boolean; development: boolean }): string {
   const { nonce, development } = options;
@@ -68,7 +68,8 @@ export function documentCsp(options: { nonce: string; formTargets: string[]; htt
     development ? "style-src 'self' 'unsafe-inline'" : "style-src 'self'",
     "style-src-attr 'unsafe-inline'",
     "img-src 'self' data: blob:",
-    "font-src 'self'",
+    // The build inlines the smallest font subsets into the CSS as data: URLs.
+    "font-src 'self' data:",
     development ? "connect-src 'self' ws: wss:" : "connect-src 'self'",
     "worker-src 'self' blob:",
     "object-src 'none'",
