@@ -44,7 +44,9 @@ export default function handleRequest(request: Request, responseStatusCode: numb
       },
       final(callback) {
         clearTimeout(timer);
-        resolve(new Response(Buffer.concat(chunks), { status, headers: responseHeaders }));
+        const body = Buffer.concat(chunks);
+        responseHeaders.set("Content-Length", String(body.byteLength));
+        resolve(new Response(body, { status, headers: responseHeaders }));
         callback();
       },
     });

@@ -3,7 +3,7 @@
  * Signed in but not a member: 404 (we do not confirm that the thing exists). A member whose role is
  * too low: 403. Each returns what the route needs next (the user, the team, the role…).
  */
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { data, redirect, type SessionStorage } from "react-router";
 import type { Db } from "./db/client.server.ts";
 import { effects, memberships, projects, teams, type EffectRow, type Project, type Role, type Team, type User } from "./db/schema.ts";
@@ -11,7 +11,7 @@ import { db } from "./db.server.ts";
 import { getUser } from "./models/users.server.ts";
 import { currentRequest } from "./requestContext.server.ts";
 import { hasRole } from "./roles.ts";
-import { sessionStorage, type SessionData } from "./sessions.server.ts";
+import { sessionStorage, type DbSessionStorage, type SessionData } from "./sessions.server.ts";
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
@@ -49,9 +49,11 @@ function returnPath(request: Request): string {
   return request.method === "GET" ? `${path}${url.search}` : path;
 }
 
-export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionData> }) {
+export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionData> | DbSessionStorage }) {
   async function lookUpUser(cookie: string | null): Promise<User | null> {
     if (!cookie) return null;
+    // One signed-cookie check and one query when the storage can (the app's own); else the session, then the user.
+    if ("readUser" in deps.sessions) return deps.sessions.readUser(cookie);
     const session = await deps.sessions.getSession(cookie);
     const userId = session.get("userId");
     return typeof userId === "string" ? getUser(deps.db, userId) : null;
@@ -78,6 +80,29 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     return user;
   }
 
+  // The guards' lookups run on every request: prepared once per connection, each one round trip.
+  const teamWithRole = deps.db
+    .select({ team: teams, role: memberships.role })
+    .from(teams)
+    .innerJoin(memberships, and(eq(memberships.teamId, teams.id), eq(memberships.userId, sql.placeholder("userId"))))
+    .where(eq(teams.id, sql.placeholder("id")))
+    .prepare("skewsmith_guard_team");
+  const projectWithRole = deps.db
+    .select({ project: projects, team: teams, role: memberships.role })
+    .from(projects)
+    .innerJoin(teams, eq(teams.id, projects.teamId))
+    .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, sql.placeholder("userId"))))
+    .where(eq(projects.id, sql.placeholder("id")))
+    .prepare("skewsmith_guard_project");
+  const effectWithRole = deps.db
+    .select({ effect: effects, project: projects, team: teams, role: memberships.role })
+    .from(effects)
+    .innerJoin(projects, eq(projects.id, effects.projectId))
+    .innerJoin(teams, eq(teams.id, projects.teamId))
+    .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, sql.placeholder("userId"))))
+    .where(eq(effects.id, sql.placeholder("id")))
+    .prepare("skewsmith_guard_effect");
+
   function check(role: Role | null, needed: Role): asserts role is Role {
     if (!role) notFound();
     if (!hasRole(role, needed)) forbid(role, needed);
@@ -90,12 +115,7 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
   ): Promise<{ user: User; team: Team; role: Role }> {
     const user = await requireUser(request);
     if (!isUuid(teamId)) notFound();
-    // One round trip: the team and the person's membership in it.
-    const [row] = await deps.db
-      .select({ team: teams, role: memberships.role })
-      .from(teams)
-      .innerJoin(memberships, and(eq(memberships.teamId, teams.id), eq(memberships.userId, user.id)))
-      .where(eq(teams.id, teamId));
+    const [row] = await teamWithRole.execute({ id: teamId, userId: user.id });
     check(row?.role ?? null, needed);
     return { user, team: row.team, role: row.role };
   }
@@ -107,12 +127,7 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
   ): Promise<{ user: User; team: Team; project: Project; role: Role }> {
     const user = await requireUser(request);
     if (!isUuid(projectId)) notFound();
-    const [row] = await deps.db
-      .select({ project: projects, team: teams, role: memberships.role })
-      .from(projects)
-      .innerJoin(teams, eq(teams.id, projects.teamId))
-      .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, user.id)))
-      .where(eq(projects.id, projectId));
+    const [row] = await projectWithRole.execute({ id: projectId, userId: user.id });
     check(row?.role ?? null, needed);
     return { user, team: row.team, project: row.project, role: row.role };
   }
@@ -124,13 +139,7 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
   ): Promise<{ user: User; team: Team; project: Project; effect: EffectRow; role: Role }> {
     const user = await requireUser(request);
     if (!isUuid(effectId)) notFound();
-    const [row] = await deps.db
-      .select({ effect: effects, project: projects, team: teams, role: memberships.role })
-      .from(effects)
-      .innerJoin(projects, eq(projects.id, effects.projectId))
-      .innerJoin(teams, eq(teams.id, projects.teamId))
-      .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, user.id)))
-      .where(eq(effects.id, effectId));
+    const [row] = await effectWithRole.execute({ id: effectId, userId: user.id });
     check(row?.role ?? null, needed);
     return { user, team: row.team, project: row.project, effect: row.effect, role: row.role };
   }

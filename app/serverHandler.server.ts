@@ -45,7 +45,16 @@ export function refusal(request: Request, status: number, message: string): Resp
 
 /** The final headers of an answer: security headers, caching and the request id. */
 export async function finishResponse(response: Response, options: { https: boolean }): Promise<Response> {
-  const headers = new Headers(response.headers);
+  // The framework's responses have headers that may change; a Response from elsewhere may not (then it is copied).
+  let headers = response.headers;
+  try {
+    headers.set("X-Request-Id", currentRequestId() ?? "");
+  } catch {
+    headers = new Headers(response.headers);
+  }
+  const requestId = currentRequestId();
+  if (requestId) headers.set("X-Request-Id", requestId);
+  else headers.delete("X-Request-Id");
   for (const [name, value] of commonSecurityHeaders(options)) if (!headers.has(name)) headers.set(name, value);
   // Pages set their own policy (with the nonce of their scripts) in entry.server.tsx; everything else may load nothing.
   if (!headers.has("Content-Security-Policy")) headers.set("Content-Security-Policy", RESOURCE_CSP);
@@ -53,10 +62,11 @@ export async function finishResponse(response: Response, options: { https: boole
   if (!headers.has("Cache-Control")) headers.set("Cache-Control", "private, no-store");
   // A page rendered for a 503 loses the Retry-After its loader's error carried; every 503 says when to come back.
   if (response.status === 503 && !headers.has("Retry-After")) headers.set("Retry-After", String(RETRY_AFTER_SECONDS));
-  const requestId = currentRequestId();
-  if (requestId) headers.set("X-Request-Id", requestId);
+  // Data responses come as many small chunks; read them whole to send one write (pages already are whole).
+  const whole = response.body && !headers.has("Content-Length") && SEND_WHOLE.test(headers.get("Content-Type") ?? "");
+  if (!whole && headers === response.headers) return response;
   let body: BodyInit | null = response.body;
-  if (body && SEND_WHOLE.test(headers.get("Content-Type") ?? "")) {
+  if (whole) {
     const bytes = new Uint8Array(await response.arrayBuffer());
     headers.set("Content-Length", String(bytes.byteLength));
     body = bytes;

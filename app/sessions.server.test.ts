@@ -3,7 +3,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { makeUser } from "../tests/factories.ts";
 import { testDb } from "../tests/support/db.ts";
 import { sessions } from "./db/schema.ts";
-import { createDbSessionStorage, hashSessionId } from "./sessions.server.ts";
+import { createDbSessionStorage, hashSessionId, verifiedId } from "./sessions.server.ts";
 
 const db = testDb();
 afterAll(() => db.$client.end());
@@ -90,5 +90,43 @@ describe("database session storage", () => {
     const setCookie = await secure.commitSession(session);
     expect(setCookie).toMatch(/^__Host-skewsmith=/);
     expect(setCookie).toMatch(/; Secure/);
+  });
+});
+
+describe("reading the person behind a cookie (readUser)", () => {
+  it("agrees with the framework's signed cookie: the right person for a good cookie, nobody for a forged or old one", async () => {
+    const user = await makeUser(db);
+    const setCookie = await signIn(user.id);
+    const id = idInCookie(setCookie);
+    expect(verifiedId(asCookie(setCookie), "skewsmith_session", [Buffer.from(secrets[0])])).toBe(id);
+    expect((await storage.readUser(`other=1; ${asCookie(setCookie)}`))?.id).toBe(user.id);
+    // A signature by another secret, a flipped character, a cookie of another name: nobody.
+    const other = createDbSessionStorage(db, { secrets: ["another-secret-of-enough-length-for-signing"], secure: false });
+    expect(await other.readUser(asCookie(setCookie))).toBeNull();
+    const value = asCookie(setCookie);
+    const flipped = value.slice(0, -3) + (value.at(-3) === "A" ? "B" : "A") + value.slice(-2);
+    expect(await storage.readUser(flipped)).toBeNull();
+    expect(verifiedId(flipped, "skewsmith_session", [Buffer.from(secrets[0])])).toBeNull();
+    expect(await storage.readUser(value.replace("skewsmith_session", "skewsmith_sessionx"))).toBeNull();
+    expect(await storage.readUser("skewsmith_session=garbage%ZZ")).toBeNull();
+    // An expired or ended session opens nothing, even with its valid signature.
+    await db
+      .update(sessions)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(sessions.idHash, hashSessionId(id)));
+    expect(await storage.readUser(value)).toBeNull();
+  });
+
+  it("still accepts cookies signed with an older secret listed after the current one", async () => {
+    const user = await makeUser(db);
+    const old = createDbSessionStorage(db, { secrets: ["the-old-secret-that-is-long-enough-to-sign"], secure: false });
+    const session = await old.getSession();
+    session.set("userId", user.id);
+    const cookie = asCookie(await old.commitSession(session));
+    const rotated = createDbSessionStorage(db, {
+      secrets: ["the-new-secret-that-is-long-enough-to-sign", "the-old-secret-that-is-long-enough-to-sign"],
+      secure: false,
+    });
+    expect((await rotated.readUser(cookie))?.id).toBe(user.id);
   });
 });

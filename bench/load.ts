@@ -59,6 +59,8 @@ const { values: args } = parseArgs({
 const DURATION = Number(args.duration);
 const CLIENTS = Number(args.clients);
 const ONLY = args.only ? new Set(args.only.split(",")) : null;
+/** Length of one round when a baseline and this checkout take turns, in seconds. */
+const ROUND_SECONDS = 5;
 
 interface Target {
   label: string;
@@ -288,12 +290,20 @@ function percentile(sorted: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
 }
 
-async function drive(
+interface Raw {
+  latencies: number[];
+  requests: number;
+  seconds: number;
+  errors: number;
+  rssBefore: number;
+  rssAfter: number;
+}
+
+async function run(
   server: Running,
   world: World,
-  name: string,
   options: { clients: number; seconds: number; paths: () => string; signedIn?: boolean },
-): Promise<Outcome> {
+): Promise<Raw> {
   const latencies: number[] = [];
   const rssBefore = server.rss();
   let next = 0;
@@ -308,46 +318,55 @@ async function drive(
       client.on("response", (_status: number, _bytes: number, responseTime: number) => latencies.push(responseTime));
     },
   });
-  latencies.sort((a, b) => a - b);
   return {
-    name,
-    clients: options.clients,
-    seconds: options.seconds,
+    latencies,
     requests: result.requests.total,
-    rps: result.requests.total / options.seconds,
-    p50: percentile(latencies, 50),
-    p95: percentile(latencies, 95),
-    p99: percentile(latencies, 99),
+    seconds: options.seconds,
     errors: result.errors + result.timeouts + result.non2xx,
     rssBefore,
     rssAfter: server.rss(),
   };
 }
 
+function outcome(name: string, clients: number, parts: Raw[]): Outcome {
+  const latencies = parts.flatMap((p) => p.latencies).sort((a, b) => a - b);
+  const requests = parts.reduce((n, p) => n + p.requests, 0);
+  const seconds = parts.reduce((n, p) => n + p.seconds, 0);
+  return {
+    name,
+    clients,
+    seconds,
+    requests,
+    rps: requests / seconds,
+    p50: percentile(latencies, 50),
+    p95: percentile(latencies, 95),
+    p99: percentile(latencies, 99),
+    errors: parts.reduce((n, p) => n + p.errors, 0),
+    rssBefore: parts[0].rssBefore,
+    rssAfter: parts.at(-1)!.rssAfter,
+  };
+}
+
+async function drive(server: Running, world: World, name: string, options: Parameters<typeof run>[2]): Promise<Outcome> {
+  return outcome(name, options.clients, [await run(server, world, options)]);
+}
+
 const pick = (list: string[]) => () => list[Math.floor(Math.random() * list.length)];
 
-async function runAll(server: Running, world: World): Promise<Outcome[]> {
+/** The scenarios, in order. */
+function scenarios(world: World): [string, Parameters<typeof drive>[3]][] {
   const pages = pick(world.pages);
   const mix = () => {
     const r = Math.random();
     return r < 0.5 ? pages() : r < 0.8 ? pick(world.tables)() : pick(world.exports)();
   };
-  const scenarios: [string, Parameters<typeof drive>[3]][] = [
+  return [
     ["floor", { clients: 10, seconds: 10, paths: () => "/healthz", signedIn: false }],
     ["page alone", { clients: 1, seconds: 10, paths: pages }],
     ["pages @10", { clients: 10, seconds: 20, paths: pages }],
     ["pages @20", { clients: 20, seconds: 20, paths: pages }],
     [`mix @${CLIENTS}`, { clients: CLIENTS, seconds: DURATION, paths: mix }],
   ];
-  log("warming up (5 s)");
-  await drive(server, world, "warm-up", { clients: 10, seconds: 5, paths: mix });
-  const out: Outcome[] = [];
-  for (const [name, options] of scenarios) {
-    if (ONLY && !ONLY.has(name.split(" ")[0])) continue;
-    log(`${name}: ${options.clients} client(s) for ${options.seconds} s`);
-    out.push(await drive(server, world, name, options));
-  }
-  return out;
 }
 
 function print(label: string, outcomes: Outcome[]): void {
@@ -371,7 +390,7 @@ async function main(): Promise<void> {
   const targets: Target[] = [];
   if (args.baseline) targets.push(prepareBaseline(args.baseline));
   targets.push({ label: "this checkout", dir: ROOT });
-  const results: { target: Target; outcomes: Outcome[] }[] = [];
+  const running: { target: Target; server: Running; world: World; outcomes: Outcome[]; profileDir?: string }[] = [];
   try {
     for (const [i, target] of targets.entries()) {
       build(target);
@@ -387,24 +406,46 @@ async function main(): Promise<void> {
         await db.$client.end();
       }
       const profileDir = args["cpu-prof"] ? path.join(WORK, `prof-${i}-${Date.now()}`) : undefined;
-      const server = await startServer(target, databaseUrl, secret, profileDir);
-      try {
-        results.push({ target, outcomes: await runAll(server, world) });
-      } finally {
-        await server.stop();
-      }
-      print(target.label, results.at(-1)!.outcomes);
-      if (profileDir)
-        for (const file of readdirSync(profileDir).filter((f) => f.endsWith(".cpuprofile"))) printProfile(path.join(profileDir, file));
+      running.push({ target, server: await startServer(target, databaseUrl, secret, profileDir), world, outcomes: [], profileDir });
+    }
+    // Both servers are up, idle but one; each scenario runs on every server in turn, so before and after meet the
+    // same machine load (other work on the machine comes and goes).
+    for (const r of running) {
+      log(`warming up ${r.target.label} (5 s)`);
+      await drive(r.server, r.world, "warm-up", { clients: 10, seconds: 5, paths: scenarios(r.world)[4][1].paths });
+    }
+    // With a baseline, each scenario is cut into rounds of ROUND_SECONDS that alternate between the servers, so a
+    // burst of other work on the machine falls on both alike; alone, a scenario runs in one go.
+    for (let s = 0; s < scenarios(running[0].world).length; s++) {
+      const [name, first] = scenarios(running[0].world)[s];
+      if (ONLY && !ONLY.has(name.split(" ")[0])) continue;
+      const rounds = running.length > 1 ? Math.max(1, Math.round(first.seconds / ROUND_SECONDS)) : 1;
+      const parts = running.map((): Raw[] => []);
+      for (let round = 0; round < rounds; round++)
+        for (const [i, r] of round % 2 ? [...running.entries()].reverse() : [...running.entries()]) {
+          const [, options] = scenarios(r.world)[s];
+          log(`${r.target.label}, ${name}: ${options.clients} client(s), round ${round + 1} of ${rounds}`);
+          parts[i].push(await run(r.server, r.world, { ...options, seconds: options.seconds / rounds }));
+        }
+      for (const [i, r] of running.entries()) r.outcomes.push(outcome(name, first.clients, parts[i]));
     }
   } finally {
+    for (const r of running) await r.server.stop();
     await cluster.stop();
   }
-  console.log(`\nMachine: ${(await import("node:os")).cpus().length} cores, Node ${process.version}`);
-  for (const { target, outcomes } of results) print(target.label, outcomes);
-  if (results.length === 2) {
-    const [before, after] = results.map((r) => new Map(r.outcomes.map((o) => [o.name, o])));
-    console.log(`\nthis checkout against ${results[0].target.label} (requests per second, after / before; p95, after / before):`);
+  for (const r of running)
+    if (r.profileDir)
+      for (const file of readdirSync(r.profileDir).filter((f) => f.endsWith(".cpuprofile"))) printProfile(path.join(r.profileDir, file));
+  console.log(
+    `\nMachine: ${(await import("node:os")).cpus().length} cores, Node ${process.version}, load average ${(await import("node:os"))
+      .loadavg()
+      .map((l) => l.toFixed(1))
+      .join(" ")}`,
+  );
+  for (const r of running) print(r.target.label, r.outcomes);
+  if (running.length === 2) {
+    const [before, after] = running.map((r) => new Map(r.outcomes.map((o) => [o.name, o])));
+    console.log(`\nthis checkout against ${running[0].target.label} (requests per second, after / before; p95, after / before):`);
     for (const [name, a] of after) {
       const b = before.get(name);
       if (b) console.log(`  ${name.padEnd(12)} throughput ×${(a.rps / b.rps).toFixed(2)}   p95 ×${(a.p95 / b.p95).toFixed(2)}`);

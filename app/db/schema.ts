@@ -250,6 +250,10 @@ export const effects = pgTable(
   },
   (t) => [
     index().on(t.projectId),
+    // Foreign keys that pages count by (effects per target profile) and that a profile's or sprite's deletion
+    // must find (ON DELETE SET NULL): without these, each is a scan of every effect.
+    index().on(t.targetProfileId),
+    index().on(t.spriteId),
     uniqueIndex("effects_project_live_name_key")
       .on(t.projectId, sql`lower(${t.name})`)
       .where(sql`${t.deletedAt} is null`),
