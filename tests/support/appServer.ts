@@ -7,6 +7,7 @@ import { spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { existsSync } from "node:fs";
 import path from "node:path";
+import { createServer, type AddressInfo } from "node:net";
 import { createInterface } from "node:readline";
 import { fileURLToPath } from "node:url";
 
@@ -38,18 +39,42 @@ export interface AppSettings {
   env?: Record<string, string | undefined>;
 }
 
-/** Starts server.js on 127.0.0.1:0 and resolves once it answers /healthz. */
+/** A port for a server that cannot take port 0 (an old checkout's react-router-serve); it retries on a clash. */
+function pickPort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer();
+    probe.once("error", reject);
+    probe.listen(0, "127.0.0.1", () => {
+      const { port } = probe.address() as AddressInfo;
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
+/**
+ * Starts server.js on 127.0.0.1:0 and resolves once it answers /healthz. With SKEWSMITH_SERVER_DIR set, the server
+ * of that (built) checkout instead, for comparing with an older commit: its own server.js, or react-router-serve.
+ */
 export async function startApp(settings: AppSettings): Promise<AppProcess> {
-  const server = path.join(buildDir(), "server/index.js");
+  const other = process.env.SKEWSMITH_SERVER_DIR ? path.resolve(process.env.SKEWSMITH_SERVER_DIR) : null;
+  if (other && !existsSync(path.join(other, "server.js"))) return startApp_(settings, other, await pickPort());
+  return startApp_(settings, other, 0);
+}
+
+async function startApp_(settings: AppSettings, otherDir: string | null, fixedPort: number): Promise<AppProcess> {
+  const dir = otherDir ?? ROOT;
+  const server = otherDir ? path.join(otherDir, "build/server/index.js") : path.join(buildDir(), "server/index.js");
   if (!existsSync(server)) throw new Error(`${server} is missing: scripts/test builds the app first (react-router build).`);
-  const child = spawn(process.execPath, [path.join(ROOT, "server.js")], {
-    cwd: ROOT,
+  const args = fixedPort ? [path.join(ROOT, "node_modules/@react-router/serve/bin.js"), server] : [path.join(dir, "server.js")];
+  const child = spawn(process.execPath, args, {
+    cwd: dir,
     env: {
       ...process.env,
       NODE_ENV: "production",
       HOST: "127.0.0.1",
-      PORT: "0",
-      APP_URL: undefined,
+      PORT: String(fixedPort),
+      APP_URL: fixedPort ? `http://127.0.0.1:${fixedPort}` : undefined,
+      SKEWSMITH_BUILD_DIR: otherDir ? "" : process.env.SKEWSMITH_BUILD_DIR,
       DATABASE_URL: settings.databaseUrl,
       SESSION_SECRET: randomBytes(32).toString("hex"),
       GITHUB_CLIENT_ID: "skewsmith-test",
@@ -102,11 +127,14 @@ export async function startApp(settings: AppSettings): Promise<AppProcess> {
     }
   }
 
-  const listening = await waitForLine((l) => l.msg === "listening").catch(async (error) => {
-    child.kill("SIGKILL");
-    throw error;
-  });
-  const url = String(listening.url);
+  let url = `http://127.0.0.1:${fixedPort}`;
+  if (!fixedPort) {
+    const listening = await waitForLine((l) => l.msg === "listening").catch(async (error) => {
+      child.kill("SIGKILL");
+      throw error;
+    });
+    url = String(listening.url);
+  }
   const deadline = Date.now() + 30_000;
   while (
     !(await fetch(`${url}/healthz`).then(
