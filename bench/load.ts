@@ -10,8 +10,9 @@
  *   pages @10    10 clients, signed-in pages (home, team, project, effect)
  *   pages @20    20 clients, the same pages
  *   mix @100     100 clients for --duration seconds: pages, table computations and exports together
- * and prints requests per second, p50/p95/p99 latency, errors (socket errors, timeouts and non-2xx answers) and the
- * server's resident memory (RSS) before and after each scenario. Pages are the four signed-in pages; "tables" are
+ * and prints requests per second, p50/p95/p99 latency, errors (socket errors, timeouts and non-2xx answers), the CPU
+ * time per request of the server process and of PostgreSQL's backends for its database (the measure least moved by
+ * other work on a shared machine), and the server's resident memory (RSS) before and after each scenario. Pages are the four signed-in pages; "tables" are
  * the effect route's data request (its loader compiles the shift tables with core); "exports" are effect document
  * downloads.
  *
@@ -19,9 +20,10 @@
  * (GET /api/v1/effects/:id/tables with a bearer token), add the export bundle download (zip) and frame PNGs to
  * "exports", and add the bench's document saves (POST with the version) to the mix.
  *
- * --baseline <git ref> first runs every scenario against that commit too (extracted with git archive into
- * .tmp/bench/, built there with this checkout's node_modules), so before and after are measured in the same run on
- * the same machine, and prints the ratios. --cpu-prof runs the server under `node --cpu-prof` and prints where a
+ * --baseline <git ref> also serves that commit (extracted with git archive into .tmp/bench/, built there with this
+ * checkout's node_modules, on a database of its own): every scenario is cut into 5-second rounds that alternate
+ * between the two servers, so before and after are measured in the same run under the same machine load, and the
+ * ratios are printed. --cpu-prof runs the server under `node --cpu-prof` and prints where a
  * render spends its time. A benchmark prints numbers, never verdicts: nothing here passes or fails.
  *
  * Run: node --import tsx bench/load.ts [--baseline REF] [--duration 30] [--clients 100] [--cpu-prof] [--only NAME,…]
@@ -84,6 +86,9 @@ interface Outcome {
   p95: number;
   p99: number;
   errors: number;
+  /** CPU milliseconds per request: the server process, and PostgreSQL's backends for its database. */
+  cpuServerPerRequest: number;
+  cpuDatabasePerRequest: number;
   rssBefore: number;
   rssAfter: number;
 }
@@ -215,6 +220,8 @@ function freePort(): Promise<number> {
 
 interface Running {
   url: string;
+  /** The database it serves (to find its PostgreSQL backends). */
+  database: string;
   child: ChildProcess;
   rss(): number;
   stop(): Promise<void>;
@@ -266,6 +273,7 @@ async function startServer(target: Target, databaseUrl: string, secret: string, 
     }
     return {
       url,
+      database: new URL(databaseUrl).pathname.slice(1),
       child,
       rss() {
         const status = readFileSync(`/proc/${child.pid}/status`, "utf8");
@@ -290,7 +298,37 @@ function percentile(sorted: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
 }
 
+/** CPU time (user + system) a process has used so far, in milliseconds (Linux /proc; clock ticks of 10 ms). */
+function cpuMs(pid: number): number {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+    const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+    return (Number(fields[11]) + Number(fields[12])) * 10;
+  } catch {
+    return 0;
+  }
+}
+
+/** CPU used so far by the PostgreSQL backends serving database `name` (their process titles name it). */
+function databaseCpuMs(name: string): number {
+  let total = 0;
+  for (const entry of readdirSync("/proc")) {
+    if (!/^\d+$/.test(entry)) continue;
+    let title: string;
+    try {
+      title = readFileSync(`/proc/${entry}/cmdline`, "utf8");
+    } catch {
+      continue;
+    }
+    if (title.startsWith("postgres: ") && title.split(" ")[2] === name) total += cpuMs(Number(entry));
+  }
+  return total;
+}
+
 interface Raw {
+  /** CPU milliseconds the server process and its database's backends used. */
+  cpuServer: number;
+  cpuDatabase: number;
   latencies: number[];
   requests: number;
   seconds: number;
@@ -306,6 +344,7 @@ async function run(
 ): Promise<Raw> {
   const latencies: number[] = [];
   const rssBefore = server.rss();
+  const cpuBefore = [cpuMs(server.child.pid!), databaseCpuMs(server.database)];
   let next = 0;
   const result = await autocannon({
     url: server.url,
@@ -319,6 +358,8 @@ async function run(
     },
   });
   return {
+    cpuServer: cpuMs(server.child.pid!) - cpuBefore[0],
+    cpuDatabase: databaseCpuMs(server.database) - cpuBefore[1],
     latencies,
     requests: result.requests.total,
     seconds: options.seconds,
@@ -342,6 +383,8 @@ function outcome(name: string, clients: number, parts: Raw[]): Outcome {
     p95: percentile(latencies, 95),
     p99: percentile(latencies, 99),
     errors: parts.reduce((n, p) => n + p.errors, 0),
+    cpuServerPerRequest: parts.reduce((n, p) => n + p.cpuServer, 0) / Math.max(1, requests),
+    cpuDatabasePerRequest: parts.reduce((n, p) => n + p.cpuDatabase, 0) / Math.max(1, requests),
     rssBefore: parts[0].rssBefore,
     rssAfter: parts.at(-1)!.rssAfter,
   };
@@ -372,11 +415,11 @@ function scenarios(world: World): [string, Parameters<typeof drive>[3]][] {
 function print(label: string, outcomes: Outcome[]): void {
   console.log(`\n${label}`);
   console.log(
-    `  ${"scenario".padEnd(12)} ${"clients".padStart(7)} ${"req/s".padStart(8)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)} ${"errors".padStart(7)}   RSS MB before → after`,
+    `  ${"scenario".padEnd(12)} ${"clients".padStart(7)} ${"req/s".padStart(8)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)} ${"errors".padStart(7)} ${"CPU ms/req: server".padStart(19)} ${"db".padStart(5)}   RSS MB before → after`,
   );
   for (const o of outcomes)
     console.log(
-      `  ${o.name.padEnd(12)} ${String(o.clients).padStart(7)} ${o.rps.toFixed(1).padStart(8)} ${o.p50.toFixed(1).padStart(8)} ${o.p95.toFixed(1).padStart(8)} ${o.p99.toFixed(1).padStart(8)} ${String(o.errors).padStart(7)}   ${o.rssBefore.toFixed(0)} → ${o.rssAfter.toFixed(0)}`,
+      `  ${o.name.padEnd(12)} ${String(o.clients).padStart(7)} ${o.rps.toFixed(1).padStart(8)} ${o.p50.toFixed(1).padStart(8)} ${o.p95.toFixed(1).padStart(8)} ${o.p99.toFixed(1).padStart(8)} ${String(o.errors).padStart(7)} ${o.cpuServerPerRequest.toFixed(2).padStart(19)} ${o.cpuDatabasePerRequest.toFixed(2).padStart(5)}   ${o.rssBefore.toFixed(0)} → ${o.rssAfter.toFixed(0)}`,
     );
   const floor = outcomes.find((o) => o.name === "floor");
   if (floor)
@@ -445,10 +488,16 @@ async function main(): Promise<void> {
   for (const r of running) print(r.target.label, r.outcomes);
   if (running.length === 2) {
     const [before, after] = running.map((r) => new Map(r.outcomes.map((o) => [o.name, o])));
-    console.log(`\nthis checkout against ${running[0].target.label} (requests per second, after / before; p95, after / before):`);
+    console.log(
+      `\nthis checkout against ${running[0].target.label} (after / before; CPU per request is the measure least moved by other work on the machine):`,
+    );
     for (const [name, a] of after) {
       const b = before.get(name);
-      if (b) console.log(`  ${name.padEnd(12)} throughput ×${(a.rps / b.rps).toFixed(2)}   p95 ×${(a.p95 / b.p95).toFixed(2)}`);
+      if (b)
+        console.log(
+          `  ${name.padEnd(12)} throughput ×${(a.rps / b.rps).toFixed(2)}   p95 ×${(a.p95 / b.p95).toFixed(2)}   ` +
+            `CPU per request (server + database) ×${((a.cpuServerPerRequest + a.cpuDatabasePerRequest) / (b.cpuServerPerRequest + b.cpuDatabasePerRequest)).toFixed(2)}`,
+        );
     }
   }
 }

@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import { log } from "../log.server.ts";
@@ -5,6 +6,41 @@ import * as schema from "./schema.ts";
 
 /** A Drizzle client over a pg pool, with the schema for relational queries. */
 export type Db = NodePgDatabase<typeof schema> & { $client: pg.Pool };
+
+const statementNames = new Map<string, string>();
+
+/** A stable statement name for a query's text (bounded: beyond 2000 shapes, new ones run unnamed). */
+function statementName(text: string): string | undefined {
+  let name = statementNames.get(text);
+  if (name === undefined && statementNames.size < 2000 && text.length < 8000) {
+    name = `s_${createHash("sha1").update(text).digest("hex")}`;
+    statementNames.set(text, name);
+  }
+  return name;
+}
+
+type QueryFn = (...args: unknown[]) => unknown;
+
+/**
+ * Makes every query a named prepared statement: PostgreSQL then parses and plans each distinct query once per
+ * connection instead of on every request (the app's queries come in a few hundred fixed shapes). Queries that name
+ * themselves (Drizzle's `.prepare()`) keep their name.
+ */
+function nameStatements(target: { query: QueryFn }): void {
+  const query = target.query.bind(target);
+  target.query = (config: unknown, ...rest: unknown[]) => {
+    if (
+      config &&
+      typeof config === "object" &&
+      typeof (config as { text?: unknown }).text === "string" &&
+      !(config as { name?: unknown }).name
+    ) {
+      const name = statementName((config as { text: string }).text);
+      if (name) return query({ ...(config as object), name }, ...rest);
+    }
+    return query(config, ...rest);
+  };
+}
 
 /** Opens a pool to DATABASE_URL; call `db.$client.end()` when done (scripts and tests). */
 export function createDb(url: string, options: { max?: number } = {}): Db {
@@ -19,6 +55,8 @@ export function createDb(url: string, options: { max?: number } = {}): Db {
   });
   // An idle connection that drops (a database restart, say) must not crash the process; the pool reconnects.
   pool.on("error", (error) => log("warn", "database connection lost", { detail: error.message }));
+  nameStatements(pool as unknown as { query: QueryFn });
+  pool.on("connect", (client) => nameStatements(client as unknown as { query: QueryFn }));
   return drizzle(pool, { schema, casing: "snake_case" });
 }
 
