@@ -117,6 +117,7 @@ const CORE_TYPES = [
 const EXPORTER_TYPES = [
   "ExportBundle",
   "BundleFile",
+  "BundleProgress",
   "ExportOptions",
   "ExportOptionsInput",
   "ExportOutput",

@@ -11,7 +11,7 @@ import { effectFileName } from "./header.ts";
 import { tablesJson } from "./json.ts";
 import { layoutFromTables, type ExportLayout } from "./layout.ts";
 import { m68kSource } from "./m68k.ts";
-import { resolveExportOptions, type ExportOptions, type ExportOptionsInput } from "./options.ts";
+import { resolveExportOptions, type ExportOptions, type ExportOptionsInput, type ExportOutput } from "./options.ts";
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Source } from "./z80.ts";
@@ -39,8 +39,11 @@ export const EXPORT_MAX_BYTES = 32 * 1024 * 1024;
 /** Date stamped on every zip entry: the first day a zip (DOS) date can hold, so bundles are reproducible. */
 const ZIP_DATE = new Date(1980, 0, 1, 0, 0, 0);
 
+/** How far exportBundle has got: steps done of the total, and what the step made (a table compile, one output, the zip). */
+export type BundleProgress = (done: number, total: number, step: string) => void;
+
 /** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted). */
-export function outputTexts(layout: ExportLayout, json: () => string): BundleFile[] {
+export function outputTexts(layout: ExportLayout, json: () => string, onOutput?: (output: ExportOutput) => void): BundleFile[] {
   const names = outputFiles(layout.label);
   const enc = new TextEncoder();
   const text = (name: string, t: string): BundleFile => ({ name, text: t, bytes: enc.encode(t) });
@@ -74,6 +77,7 @@ export function outputTexts(layout: ExportLayout, json: () => string): BundleFil
         files.push(text(n[0], runtimeSource(layout)));
         break;
     }
+    onOutput?.(output);
   }
   return files;
 }
@@ -82,19 +86,28 @@ export function outputTexts(layout: ExportLayout, json: () => string): BundleFil
  * Makes the export bundle of a validated effect: README.txt, the chosen outputs (C, four assembler dialects, raw
  * binaries, tables document, run-time routine) and the effect document, as files and as one zip. `options.name` is the
  * effect's name (default label and headers). Throws ExportOptionError for a bad or inapplicable option, RangeError when
- * the tables exceed EXPORT_MAX_BYTES.
+ * the tables exceed EXPORT_MAX_BYTES. `onProgress` hears of every step (tables, each output, the zip), so a long export
+ * can show how far it has got.
  */
-export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): ExportBundle {
+export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, onProgress?: BundleProgress): ExportBundle {
   const resolved = resolveExportOptions(options);
+  const total = resolved.outputs.length + 2;
+  let done = 0;
+  const step = (name: string) => onProgress?.(++done, total, name);
   const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
   const tables = full ?? compileShifts(effect);
+  step("tables");
   const budget = budgetFromTables(tables, resolved);
   if (budget.totalBytes > EXPORT_MAX_BYTES)
     throw new RangeError(
       `export: ${budget.totalBytes} bytes of tables is more than the ${EXPORT_MAX_BYTES} a bundle may hold (32 MiB, the largest cartridge ROM of the targets); use dedupe or half tables, fewer frames or a smaller canvas`,
     );
   const layout = layoutFromTables(tables, resolved);
-  const outputs = outputTexts(layout, () => tablesJson(full ?? compileTables(effect)));
+  const outputs = outputTexts(
+    layout,
+    () => tablesJson(full ?? compileTables(effect)),
+    (output) => step(output),
+  );
   const enc = new TextEncoder();
   const [readmeName, effectName] = alwaysFiles(layout.label);
   const effectText = `${JSON.stringify(effect, null, 2)}\n`;
@@ -106,5 +119,6 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): 
     { name: effectFileName(layout.label), text: effectText, bytes: enc.encode(effectText) },
   ];
   const zip = zipSync(Object.fromEntries(files.map((f) => [f.name, [f.bytes, { mtime: ZIP_DATE }]])), { level: 6, mtime: ZIP_DATE });
+  step("zip");
   return { label: layout.label, options: resolved, files, zip, budget };
 }
