@@ -5,7 +5,18 @@ import "@fontsource/jetbrains-mono/400.css";
 import "@fontsource/jetbrains-mono/600.css";
 import "./app.css";
 
-import { Form, isRouteErrorResponse, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
+import {
+  Form,
+  isRouteErrorResponse,
+  Link,
+  Links,
+  Meta,
+  Outlet,
+  Scripts,
+  ScrollRestoration,
+  useMatches,
+  useRouteLoaderData,
+} from "react-router";
 import type { Route } from "./+types/root";
 import { buttonClass, Wordmark } from "./components/ui.tsx";
 import { env } from "./env.server.ts";
@@ -72,10 +83,12 @@ export function Layout({ children }: { children: React.ReactNode }) {
 }
 
 export default function App() {
+  // A route that needs the whole window (the effect bench) says so in its handle.
+  const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
   return (
     <>
       <Header />
-      <main className="mx-auto max-w-6xl px-6 py-8">
+      <main className={wide ? "mx-auto max-w-[1600px] px-4 py-6" : "mx-auto max-w-6xl px-6 py-8"}>
         <Outlet />
       </main>
     </>

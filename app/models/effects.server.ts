@@ -305,3 +305,123 @@ export async function listEffects(db: Tx, projectId: string, options: { deleted?
     .orderBy(...(options.deleted ? [desc(effects.deletedAt)] : [asc(sql`lower(${effects.name})`)]));
   return rows;
 }
+
+/** What the bench saves in one go: the document and everything stored beside it in the effects row. */
+export interface BenchSaveInput {
+  effectId: string;
+  /** The version the person's edits started from; a save after anyone else's is refused. */
+  expectedVersion: number;
+  actorId: string;
+  document: unknown;
+  targetProfileId: string | null;
+  followsProfile: boolean;
+  spriteId: string | null;
+  spriteX: number | null;
+  spriteY: number | null;
+  keyPixels: [number, number][];
+}
+
+/** The bench's save: done (with the parts that changed), or refused because someone saved first (with their row). */
+export type BenchSaveResult = { ok: true; effect: EffectRow; changed: string[] } | { ok: false; current: EffectRow };
+
+/** The target settings a profile fixes, as they sit in an effect document. */
+function profileDocumentSettings(profile: typeof targetProfiles.$inferSelect) {
+  return {
+    canvas: { width: profile.canvasWidth, height: profile.canvasHeight },
+    fixedPoint: { bits: profile.fixedPointBits, fraction: profile.fixedPointFraction },
+    rounding: profile.rounding,
+    halfTurn: profile.halfTurn,
+    edges: profile.edges,
+    columnGroup: profile.columnGroup,
+  };
+}
+
+/** The parts of an effect a save changes, in words, for the activity list. */
+function benchChanges(
+  before: EffectRow,
+  after: Omit<BenchSaveInput, "document" | "effectId" | "expectedVersion" | "actorId"> & { document: Effect },
+) {
+  const a = validDocument(before.document);
+  const b = after.document;
+  const same = (x: unknown, y: unknown) => JSON.stringify(x) === JSON.stringify(y);
+  const parts: [boolean, string][] = [
+    [!same(a.canvas, b.canvas), "canvas"],
+    [!same(a.pivot, b.pivot), "pivot"],
+    [!same(a.angles, b.angles), "angle track"],
+    [!same(a.fixedPoint, b.fixedPoint), "fixed point"],
+    [a.rounding !== b.rounding, "rounding"],
+    [a.halfTurn !== b.halfTurn, "half-turn rule"],
+    [a.edges !== b.edges, "edges"],
+    [a.columnGroup !== b.columnGroup, "column group"],
+    [before.targetProfileId !== after.targetProfileId || before.followsProfile !== after.followsProfile, "target profile"],
+    [before.spriteId !== after.spriteId, "sprite"],
+    [before.spriteX !== after.spriteX || before.spriteY !== after.spriteY, "sprite placement"],
+    [!same([...before.keyPixels].map(String).sort(), [...after.keyPixels].map(String).sort()), "key pixels"],
+  ];
+  return parts.filter(([changed]) => changed).map(([, what]) => what);
+}
+
+/**
+ * Saves the bench in one transaction and one version: the document (validated by core; while the effect follows its
+ * target profile, the profile's settings win), the target profile and whether it is followed, the sprite, its
+ * placement and the key pixels. A save that names an old version is refused with the row as it is now, so nothing
+ * anyone saved is overwritten unseen; a save that changes nothing keeps the version.
+ */
+export async function saveEffectBench(db: Tx, input: BenchSaveInput): Promise<BenchSaveResult> {
+  return db.transaction(async (tx) => {
+    const { effect, project } = await changeableEffect(tx, input.effectId);
+    if (effect.version !== input.expectedVersion) return { ok: false, current: effect };
+    let document = input.document;
+    if (input.targetProfileId) {
+      const [profile] = await tx
+        .select()
+        .from(targetProfiles)
+        .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)));
+      if (!profile) throw new DomainError("That target profile does not belong to this team.", { field: "targetProfileId" });
+      if (input.followsProfile && document && typeof document === "object")
+        document = { ...(document as Record<string, unknown>), ...profileDocumentSettings(profile) };
+    }
+    const valid = validDocument(document);
+    let bounds = valid.canvas;
+    if (input.spriteId) {
+      const [sprite] = await tx
+        .select({ width: sprites.width, height: sprites.height })
+        .from(sprites)
+        .where(and(eq(sprites.id, input.spriteId), eq(sprites.projectId, project.id)));
+      if (!sprite) throw new DomainError("That sprite does not belong to this project.", { field: "spriteId" });
+      bounds = sprite;
+    }
+    const outside = input.keyPixels.find(([x, y]) => !(x >= 0 && y >= 0 && x < bounds.width && y < bounds.height));
+    if (outside)
+      throw new DomainError(
+        `Key pixel (${outside[0]}, ${outside[1]}) is outside the ${input.spriteId ? "sprite" : "canvas"}: allowed x 0 to ${bounds.width - 1}, y 0 to ${bounds.height - 1}.`,
+        { field: "keyPixels" },
+      );
+    const next = {
+      document: valid,
+      targetProfileId: input.targetProfileId,
+      followsProfile: input.targetProfileId !== null && input.followsProfile,
+      spriteId: input.spriteId,
+      spriteX: input.spriteX,
+      spriteY: input.spriteY,
+      keyPixels: input.keyPixels,
+    };
+    const changed = benchChanges(effect, next);
+    if (changed.length === 0) return { ok: true, effect, changed };
+    const [saved] = await tx
+      .update(effects)
+      .set({ ...next, version: sql`${effects.version} + 1`, updatedBy: input.actorId })
+      .where(and(eq(effects.id, effect.id), eq(effects.version, input.expectedVersion)))
+      .returning();
+    // Someone's save committed between our read and our write: theirs stands, ours is refused.
+    if (!saved) return { ok: false, current: await mustGet(tx, effect.id) };
+    await recordActivity(tx, {
+      teamId: project.teamId,
+      projectId: project.id,
+      userId: input.actorId,
+      action: "effect.saved",
+      summary: `saved version ${saved.version} of ${effect.name} (${changed.join(", ")})`,
+    });
+    return { ok: true, effect: saved, changed };
+  });
+}
