@@ -21,7 +21,7 @@ export interface BenchView {
 }
 
 /** The zoom that shows the canvas at about `room` pixels wide and `roomY` high, whole numbers only. */
-export function fitZoom(canvas: { width: number; height: number }, room = 560, roomY = 480): number {
+export function fitZoom(canvas: { width: number; height: number }, room = 512, roomY = 400): number {
   return Math.max(ZOOM_MIN, Math.min(ZOOM_MAX, Math.floor(Math.min(room / canvas.width, roomY / canvas.height))));
 }
 

@@ -353,7 +353,11 @@ function benchChanges(
     [a.halfTurn !== b.halfTurn, "half-turn rule"],
     [a.edges !== b.edges, "edges"],
     [a.columnGroup !== b.columnGroup, "column group"],
-    [before.targetProfileId !== after.targetProfileId || before.followsProfile !== after.followsProfile, "target profile"],
+    [
+      before.targetProfileId !== after.targetProfileId ||
+        (before.targetProfileId !== null && before.followsProfile) !== (after.targetProfileId !== null && after.followsProfile),
+      "target profile",
+    ],
     [before.spriteId !== after.spriteId, "sprite"],
     [before.spriteX !== after.spriteX || before.spriteY !== after.spriteY, "sprite placement"],
     [!same([...before.keyPixels].map(String).sort(), [...after.keyPixels].map(String).sort()), "key pixels"],

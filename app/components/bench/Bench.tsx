@@ -8,6 +8,7 @@ import { Link } from "react-router";
 import useSWR from "swr";
 import type { KeyPixel } from "../../bench/draft.ts";
 import { NO_OVERLAYS, type Overlays } from "../../bench/draw.ts";
+import { growToFit } from "../../bench/fit.ts";
 import type { FrameRow } from "../../bench/engine.ts";
 import { useBenchWorker, type FrameAnswer } from "../../bench/useBenchWorker.ts";
 import { PASS_LABELS, viewHref, ZOOM_MAX, ZOOM_MIN, type BenchView, type Pass } from "../../bench/view.ts";
@@ -102,8 +103,9 @@ export function Bench({ data }: { data: Data }) {
     };
   }, [bench.lastValid, align]);
   const loadKey = JSON.stringify(loadInput);
+  const load = worker.load;
   useEffect(() => {
-    const timer = setTimeout(() => worker.load(loadInput), 60);
+    const timer = setTimeout(() => load(loadInput), 60);
     return () => clearTimeout(timer);
     // The key holds every input.
     // eslint-disable-next-line react-hooks/exhaustive-deps
@@ -114,6 +116,7 @@ export function Bench({ data }: { data: Data }) {
     () => ({ marks: overlays.marks, error: overlays.error, keys: overlays.keys }),
     [overlays.marks, overlays.error, overlays.keys],
   );
+  const askFrame = worker.frame;
   const inFlight = useRef(false);
   const wanted = useRef<{ index: number; pass: Pass } | null>(null);
   const request = useCallback(() => {
@@ -121,7 +124,7 @@ export function Bench({ data }: { data: Data }) {
     const w = wanted.current;
     wanted.current = null;
     inFlight.current = true;
-    worker.frame(w.index, w.pass, wants).then(
+    askFrame(w.index, w.pass, wants).then(
       (a) => {
         inFlight.current = false;
         setAnswer(a);
@@ -132,7 +135,7 @@ export function Bench({ data }: { data: Data }) {
         request();
       },
     );
-  }, [worker, wants]);
+  }, [askFrame, wants]);
   useEffect(() => {
     if (!worker.state.loaded) return;
     wanted.current = { index: frame, pass: view.pass };
@@ -214,17 +217,18 @@ export function Bench({ data }: { data: Data }) {
 
   const followed = draft.followsProfile ? (profiles.find((p) => p.id === draft.targetProfileId)?.name ?? null) : null;
   const grow = (fit: CanvasFit) => {
+    const g = growToFit(doc, fit, align);
     const patch: Partial<typeof draft> = {
-      canvasWidth: String(fit.width),
-      canvasHeight: String(fit.height),
-      pivotX: String(fit.pivot.x),
-      pivotY: String(fit.pivot.y),
+      canvasWidth: String(g.width),
+      canvasHeight: String(g.height),
+      pivotX: String(g.pivot.x),
+      pivotY: String(g.pivot.y),
       followsProfile: false,
     };
     if (placement) {
-      patch.spriteX = String(placement.x + fit.change.left);
-      patch.spriteY = String(placement.y + fit.change.top);
-    } else patch.keyPixels = draft.keyPixels.map(([x, y]) => [x + fit.change.left, y + fit.change.top]);
+      patch.spriteX = String(placement.x + g.left);
+      patch.spriteY = String(placement.y + g.top);
+    } else patch.keyPixels = draft.keyPixels.map(([x, y]) => [x + g.left, y + g.top]);
     bench.changeMany(patch);
   };
 
@@ -349,105 +353,116 @@ export function Bench({ data }: { data: Data }) {
         </div>
       </div>
 
-      <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
-        <Panel title="Preview" id="preview">
-          <div className="flex flex-col gap-4">
-            <PlayerControls
-              frame={frame}
-              frames={frames}
-              pass={view.pass}
-              zoom={view.zoom}
-              playing={playing}
-              rate={shownRate}
-              reducedMotion={reducedMotion}
-              overlays={overlays}
-              onFrame={jump}
-              onPass={setPass}
-              onZoom={setZoom}
-              onPlay={setPlaying}
-              onRate={setRate}
-              onOverlay={(name, on) => setOverlays((o) => ({ ...o, [name]: on }))}
-              frameHref={`/effects/${effect.id}/frames/${frame}.png?pass=${view.pass}`}
-            />
-            <PreviewCanvas
-              answer={answer}
-              width={doc.canvas.width}
-              height={doc.canvas.height}
-              zoom={view.zoom}
-              pivot={doc.pivot}
-              outline={loaded?.outline ?? null}
-              overlays={overlays}
-              mode={pointerMode}
-              description={description}
-              onPlacePivot={(x, y) => bench.changeMany({ pivotX: String(x), pivotY: String(y) })}
-              onToggleKey={toggleKey}
-              onKey={onKey}
-            />
-            {pointerMode !== "view" ? (
-              <div className="flex items-center gap-2 text-xs text-glass-200">
-                {pointerMode === "pivot" ? "Placing the pivot." : "Marking key pixels on the source."}
-                <button type="button" className={buttonClass("secondary", "sm")} onClick={() => setPointerMode("view")}>
-                  Done
-                </button>
-              </div>
-            ) : null}
-            <Legend overlays={overlays} picture={answer?.picture ?? null} pass={view.pass} edges={doc.edges} />
+      <div className="grid items-start gap-5 lg:grid-cols-[19rem_minmax(0,1fr)] xl:grid-cols-[21rem_minmax(0,1fr)]">
+        <aside
+          aria-label="Settings"
+          className="lg:sticky lg:top-3 lg:max-h-[calc(100vh-1.5rem)] lg:overflow-y-auto lg:overscroll-contain"
+          data-testid="settings-column"
+        >
+          <Panel title="Settings" id="settings">
             <div>
-              <h3 className="mb-1.5 text-xs font-semibold uppercase tracking-wide text-ink-300">Palette: source and this frame</h3>
-              <PaletteHistogram
-                source={loaded?.sourceColours ?? []}
-                frame={answer?.picture.colours ?? null}
-                indexed={loaded?.sprite ? loaded.sprite.kind === "indexed" : true}
+              <SettingsForm
+                draft={draft}
+                errors={bench.errors}
+                change={bench.change}
+                changeMany={bench.changeMany}
+                readOnly={!editable}
+                profiles={profiles}
+                sprites={spriteList}
+                pointerMode={pointerMode}
+                setPointerMode={choosePointer}
+                onSubmit={bench.save}
               />
             </div>
-          </div>
-        </Panel>
+          </Panel>
+        </aside>
+        <div className="flex min-w-0 flex-col gap-5">
+          <Panel title="Preview" id="preview">
+            <div className="flex flex-col gap-4">
+              <PlayerControls
+                frame={frame}
+                frames={frames}
+                pass={view.pass}
+                zoom={view.zoom}
+                playing={playing}
+                rate={shownRate}
+                reducedMotion={reducedMotion}
+                overlays={overlays}
+                onFrame={jump}
+                onPass={setPass}
+                onZoom={setZoom}
+                onPlay={setPlaying}
+                onRate={setRate}
+                onOverlay={(name, on) => setOverlays((o) => ({ ...o, [name]: on }))}
+                frameHref={`/effects/${effect.id}/frames/${frame}.png?pass=${view.pass}`}
+              />
+              <div className="flex flex-wrap items-start gap-5">
+                <div className="flex min-w-0 flex-col gap-3">
+                  <PreviewCanvas
+                    answer={answer}
+                    width={doc.canvas.width}
+                    height={doc.canvas.height}
+                    zoom={view.zoom}
+                    pivot={doc.pivot}
+                    outline={loaded?.outline ?? null}
+                    overlays={overlays}
+                    mode={pointerMode}
+                    description={description}
+                    onPlacePivot={(x, y) => bench.changeMany({ pivotX: String(x), pivotY: String(y) })}
+                    onToggleKey={toggleKey}
+                    onKey={onKey}
+                  />
+                  {pointerMode !== "view" ? (
+                    <div className="flex items-center gap-2 text-xs text-glass-200">
+                      {pointerMode === "pivot" ? "Placing the pivot." : "Marking key pixels on the source."}
+                      <button type="button" className={buttonClass("secondary", "sm")} onClick={() => setPointerMode("view")}>
+                        Done
+                      </button>
+                    </div>
+                  ) : null}
+                  <Legend overlays={overlays} picture={answer?.picture ?? null} pass={view.pass} edges={doc.edges} />
+                </div>
+                <div className="min-w-[15rem] max-w-md flex-1">
+                  <h3 className="mb-1.5 text-xs font-semibold uppercase tracking-wide text-ink-300">Palette: source and this frame</h3>
+                  <PaletteHistogram
+                    source={loaded?.sourceColours ?? []}
+                    frame={answer?.picture.colours ?? null}
+                    indexed={loaded?.sprite ? loaded.sprite.kind === "indexed" : true}
+                  />
+                </div>
+              </div>
+            </div>
+          </Panel>
 
-        <Panel title="Frames" id="frames">
-          <div className="flex flex-col gap-4">
-            <BenchSummary
-              rows={rows}
-              total={total}
-              effect={doc}
-              fit={worker.state.fit}
-              align={align}
-              onAlign={setAlign}
-              onGrow={grow}
-              canEdit={editable}
-              followedProfile={followed}
-              masked={masked}
-              onJump={jump}
-            />
-            {bench.dirty && savedRows ? (
-              <p className="text-xs text-ink-400" data-testid="saved-comparison">
-                Saved version {saved.data?.version}: worst error {savedWorst?.toFixed(3)} px, {savedWrapping} of {savedRows.length} frames
-                wrap or clip (measured on the server).
-              </p>
-            ) : null}
-            <FrameTable rows={rows} total={total} current={frame} onJump={jump} heading={heading} following={!playing} />
-            {worker.state.diagnosedMs !== null ? (
-              <p className="num text-xs text-ink-500">Measured in your browser in {worker.state.diagnosedMs.toFixed(0)} ms.</p>
-            ) : null}
-          </div>
-        </Panel>
-      </div>
-
-      <Panel title="Settings" id="settings">
-        <div className="max-w-5xl">
-          <SettingsForm
-            draft={draft}
-            errors={bench.errors}
-            change={bench.change}
-            changeMany={bench.changeMany}
-            readOnly={!editable}
-            profiles={profiles}
-            sprites={spriteList}
-            pointerMode={pointerMode}
-            setPointerMode={choosePointer}
-            onSubmit={bench.save}
-          />
+          <Panel title="Frames" id="frames">
+            <div className="flex flex-col gap-4">
+              <BenchSummary
+                rows={rows}
+                total={total}
+                effect={doc}
+                fit={worker.state.fit}
+                align={align}
+                onAlign={setAlign}
+                onGrow={grow}
+                canEdit={editable}
+                followedProfile={followed}
+                masked={masked}
+                onJump={jump}
+              />
+              {bench.dirty && savedRows ? (
+                <p className="text-xs text-ink-400" data-testid="saved-comparison">
+                  Saved version {saved.data?.version}: worst error {savedWorst?.toFixed(3)} px, {savedWrapping} of {savedRows.length} frames
+                  wrap or clip (measured on the server).
+                </p>
+              ) : null}
+              <FrameTable rows={rows} total={total} current={frame} onJump={jump} heading={heading} following={!playing} />
+              {worker.state.diagnosedMs !== null ? (
+                <p className="num text-xs text-ink-500">Measured in your browser in {worker.state.diagnosedMs.toFixed(0)} ms.</p>
+              ) : null}
+            </div>
+          </Panel>
         </div>
-      </Panel>
+      </div>
 
       <Panel title="Export" id="export">
         <ExportPanel

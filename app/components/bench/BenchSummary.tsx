@@ -4,6 +4,7 @@
  */
 import type { CanvasFit, Effect } from "@skewsmith/core";
 import type { FrameRow } from "../../bench/engine.ts";
+import { growToFit } from "../../bench/fit.ts";
 import { qNotation } from "../../effects/display.ts";
 import { buttonClass } from "../ui.tsx";
 import { short } from "./FrameTable.tsx";
@@ -69,6 +70,7 @@ export function BenchSummary({
   const worstWrap = wrapped.reduce<FrameRow | null>((w, r) => (!w || r.wrapped > w.wrapped ? r : w), null);
   const worstClip = clipped.reduce<FrameRow | null>((w, r) => (!w || r.clipped > w.clipped ? r : w), null);
   const { width: W, height: H } = effect.canvas;
+  const growth = fit ? growToFit(effect, fit, align) : null;
   const reach = Math.hypot(Math.max(effect.pivot.x, W - effect.pivot.x), Math.max(effect.pivot.y, H - effect.pivot.y));
   const pixels = masked ? "of the sprite's pixels" : "pixels";
   const frameLink = (r: FrameRow) => (
@@ -126,7 +128,7 @@ export function BenchSummary({
         </p>
       ) : null}
 
-      {fit ? (
+      {fit && growth ? (
         <div className="rounded-md border border-ink-700 bg-ink-950/60 px-3 py-2" data-testid="canvas-fit">
           {fit.fitsNow ? (
             <p className="text-ink-200">
@@ -138,12 +140,12 @@ export function BenchSummary({
             </p>
           ) : (
             <p className="text-ink-100">
-              Canvas fit: a{" "}
-              <span className="num">
-                {fit.width} × {fit.height}
+              Canvas fit: growing the canvas to{" "}
+              <span className="num" data-testid="fit-size">
+                {growth.width} × {growth.height}
               </span>{" "}
-              canvas holds every frame (left {fit.change.left}, right {fit.change.right}, top {fit.change.top}, bottom {fit.change.bottom}{" "}
-              px), pivot at ({fit.pivot.x}, {fit.pivot.y}).
+              (left {growth.left}, right {growth.right}, top {growth.top}, bottom {growth.bottom} px) holds every frame; the pivot moves to
+              ({growth.pivot.x}, {growth.pivot.y}) and the sprite with it. The smallest canvas that would do is {fit.width} × {fit.height}.
               {fit.worstFrame >= 0 ? ` Frame ${fit.worstFrame} reaches furthest out.` : ""}
               {fit.withinLimits ? "" : " That is more than the 4096 pixels a side the core allows: turn less, or move the pivot."}
             </p>
@@ -163,7 +165,7 @@ export function BenchSummary({
                 ))}
               </select>
             </label>
-            {canEdit && !fit.fitsNow && fit.withinLimits ? (
+            {canEdit && !fit.fitsNow && growth.width <= 4096 && growth.height <= 4096 ? (
               <button type="button" className={buttonClass("primary", "sm")} onClick={() => onGrow(fit)}>
                 Grow the canvas to fit{followedProfile ? ` (detaches from ${followedProfile})` : ""}
               </button>

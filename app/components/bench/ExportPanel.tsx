@@ -61,6 +61,8 @@ export function ExportPanel({
   const [exportError, setExportError] = useState<string | null>(null);
   const [open, setOpen] = useState<string | null>(null);
   const checked = useMemo(() => exportInput(choice, effectName), [choice, effectName]);
+  const budgetOf = worker.budget;
+  const exportOf = worker.exportFiles;
   const files = made && made.document === document && checked.ok && made.options === checked.options ? made.files : null;
   const frames = "list" in document.angles ? document.angles.list.length : document.angles.sweep.frames;
   const entries = frames * (document.canvas.width + document.canvas.height);
@@ -71,7 +73,7 @@ export function ExportPanel({
     if (!checked.ok) return;
     let live = true;
     const timer = setTimeout(() => {
-      worker.budget(document, checked.options).then(
+      budgetOf(document, checked.options).then(
         (report) => live && setBudget({ report, error: null }),
         (error: Error) => live && setBudget({ report: null, error: error.message }),
       );
@@ -80,28 +82,26 @@ export function ExportPanel({
       live = false;
       clearTimeout(timer);
     };
-  }, [worker, document, checked]);
+  }, [budgetOf, document, checked]);
 
   const make = () => {
     if (!checked.ok) return;
     const options = checked.options;
     setProgress({ done: 0, total: 1, step: "starting" });
     setExportError(null);
-    worker
-      .exportFiles(document, options, (done, total, step) => setProgress({ done, total, step }))
-      .then(
-        (list) => {
-          setMade({ document, options, files: list });
-          setProgress(null);
-          setOpen((o) =>
-            o && list.some((f) => f.name === o) ? o : (list.find((f) => f.name !== "README.txt")?.name ?? list[0]?.name ?? null),
-          );
-        },
-        (error: Error) => {
-          setExportError(error.message);
-          setProgress(null);
-        },
-      );
+    exportOf(document, options, (done, total, step) => setProgress({ done, total, step })).then(
+      (list) => {
+        setMade({ document, options, files: list });
+        setProgress(null);
+        setOpen((o) =>
+          o && list.some((f) => f.name === o) ? o : (list.find((f) => f.name !== "README.txt")?.name ?? list[0]?.name ?? null),
+        );
+      },
+      (error: Error) => {
+        setExportError(error.message);
+        setProgress(null);
+      },
+    );
   };
 
   useEffect(() => {

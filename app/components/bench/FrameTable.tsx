@@ -13,18 +13,18 @@ export function short(n: number, digits = 3): string {
 const COLUMNS: { key: SortKey | null; label: string; title?: string; right?: boolean }[] = [
   { key: "index", label: "Frame", right: true },
   { key: "written", label: "Angle", title: "as the track gives it; the normalised and residual angles show where they differ" },
-  { key: null, label: "Flip", title: "half-turn flip: the frame mirrors both axes first" },
+  { key: null, label: "Flip", title: "half-turn flip: the frame mirrors both axes first, then the shears turn the rest" },
   { key: "alpha", label: "kα", right: true },
   { key: "beta", label: "kβ", right: true },
-  { key: "maxErrorPx", label: "Max error", right: true },
-  { key: "meanErrorPx", label: "Mean error", right: true },
+  { key: "maxErrorPx", label: "Max err", right: true, title: "largest distance from the ideal spot, in pixels" },
+  { key: "meanErrorPx", label: "Mean err", right: true, title: "mean distance from the ideal spot, in pixels" },
   { key: "wrapped", label: "Wrapped", right: true },
   { key: "clipped", label: "Clipped", right: true },
-  { key: null, label: "Saturated" },
+  { key: null, label: "Sat.", title: "saturated: kα or kβ did not fit the fixed-point format" },
 ];
 
 const KEY_COLUMNS: typeof COLUMNS = [
-  { key: "keyMaxErrorPx", label: "Key error", right: true, title: "largest error over the key pixels" },
+  { key: "keyMaxErrorPx", label: "Key err", right: true, title: "largest error over the key pixels, in pixels" },
   { key: "keyApart", label: "Keys apart", right: true, title: "pairs of touching key pixels that no longer touch" },
 ];
 
@@ -53,7 +53,7 @@ const Row = memo(function Row({
       data-trouble={bad ? "true" : undefined}
       className={`cursor-pointer border-b border-ink-800 ${current ? "bg-glass-900/70" : bad ? "bg-alert-900/35 hover:bg-alert-900/60" : "hover:bg-ink-850"}`}
     >
-      <td className={`px-2 py-1 text-right ${bad ? "border-l-2 border-alert-400" : "border-l-2 border-transparent"}`}>
+      <td className={`px-1.5 py-1 text-right ${bad ? "border-l-2 border-alert-400" : "border-l-2 border-transparent"}`}>
         <button
           type="button"
           className="num cursor-pointer rounded px-1 text-ink-100 hover:text-glass-300"
@@ -63,22 +63,21 @@ const Row = memo(function Row({
           {row.index}
         </button>
       </td>
-      <td className="num px-2 py-1 whitespace-nowrap">
+      <td className="num px-1.5 py-1 whitespace-nowrap">
         {short(row.written, 4)}°{normalisedDiffers ? <span className="ml-1 text-ink-400">= {short(row.degrees, 4)}°</span> : null}
-        {row.flip ? <span className="ml-1 text-ink-400">→ {short(row.residualDegrees, 4)}° after flip</span> : null}
       </td>
-      <td className="px-2 py-1 text-ink-300">{row.flip ? "yes" : ""}</td>
-      <td className="num px-2 py-1 text-right">{row.alpha}</td>
-      <td className="num px-2 py-1 text-right">{row.beta}</td>
-      <td className="num px-2 py-1 text-right">{row.maxErrorPx.toFixed(3)}</td>
-      <td className="num px-2 py-1 text-right">{row.meanErrorPx.toFixed(3)}</td>
-      <td className={`num px-2 py-1 text-right ${row.wrapped ? "font-semibold text-alert-300" : "text-ink-500"}`}>{row.wrapped}</td>
-      <td className={`num px-2 py-1 text-right ${row.clipped ? "font-semibold text-alert-300" : "text-ink-500"}`}>{row.clipped}</td>
-      <td className={`px-2 py-1 ${row.saturated ? "font-semibold text-alert-300" : ""}`}>{row.saturated ? "yes" : ""}</td>
+      <td className="num px-1.5 py-1 whitespace-nowrap text-ink-300">{row.flip ? `yes, then ${short(row.residualDegrees, 3)}°` : ""}</td>
+      <td className="num px-1.5 py-1 text-right">{row.alpha}</td>
+      <td className="num px-1.5 py-1 text-right">{row.beta}</td>
+      <td className="num px-1.5 py-1 text-right">{row.maxErrorPx.toFixed(3)}</td>
+      <td className="num px-1.5 py-1 text-right">{row.meanErrorPx.toFixed(3)}</td>
+      <td className={`num px-1.5 py-1 text-right ${row.wrapped ? "font-semibold text-alert-300" : "text-ink-500"}`}>{row.wrapped}</td>
+      <td className={`num px-1.5 py-1 text-right ${row.clipped ? "font-semibold text-alert-300" : "text-ink-500"}`}>{row.clipped}</td>
+      <td className={`px-1.5 py-1 ${row.saturated ? "font-semibold text-alert-300" : ""}`}>{row.saturated ? "yes" : ""}</td>
       {keys ? (
         <>
-          <td className="num px-2 py-1 text-right">{row.keyMaxErrorPx === null ? "" : row.keyMaxErrorPx.toFixed(3)}</td>
-          <td className={`num px-2 py-1 text-right ${row.keyApart ? "font-semibold text-alert-300" : "text-ink-500"}`}>
+          <td className="num px-1.5 py-1 text-right">{row.keyMaxErrorPx === null ? "" : row.keyMaxErrorPx.toFixed(3)}</td>
+          <td className={`num px-1.5 py-1 text-right ${row.keyApart ? "font-semibold text-alert-300" : "text-ink-500"}`}>
             {row.keyApart ?? ""}
           </td>
         </>
@@ -146,7 +145,7 @@ export function FrameTable({
                 <th
                   key={c.label}
                   scope="col"
-                  className={`px-2 py-1.5 font-medium whitespace-nowrap ${c.right ? "text-right" : "text-left"}`}
+                  className={`px-1.5 py-1.5 font-medium whitespace-nowrap ${c.right ? "text-right" : "text-left"}`}
                   aria-sort={c.key && sort.key === c.key ? (sort.dir === 1 ? "ascending" : "descending") : undefined}
                   title={c.title}
                 >

@@ -137,7 +137,7 @@ export function PreviewCanvas({
         : "Arrow keys: ← → frames, ↑ ↓ passes; + and − zoom; space plays or pauses.";
 
   return (
-    <div className="flex flex-col items-start gap-2">
+    <div className="flex flex-col items-start gap-2" style={{ maxWidth: Math.max(320, width * zoom + 2) }}>
       <div
         className="max-w-full overflow-auto rounded-sm border border-ink-600 bg-[repeating-conic-gradient(#1d252d_0_25%,#12181e_0_50%)] bg-[length:16px_16px]"
         style={{ maxHeight: "70vh" }}
