@@ -22,6 +22,15 @@ import { buttonClass, Wordmark } from "./components/ui.tsx";
 import { env } from "./env.server.ts";
 import { getUserFromRequest } from "./guards.server.ts";
 
+/** The title of a page without one of its own, and of the error pages. */
+export const meta: Route.MetaFunction = ({ error }) => [
+  {
+    title: error
+      ? `${isRouteErrorResponse(error) && error.status === 404 ? "Nothing here" : "Something went wrong"} · Skewsmith`
+      : "Skewsmith",
+  },
+];
+
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
 export async function loader({ request }: Route.LoaderArgs) {

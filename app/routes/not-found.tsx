@@ -1,4 +1,7 @@
 import { data } from "react-router";
+import type { Route } from "./+types/not-found";
+
+export const meta: Route.MetaFunction = () => [{ title: "Nothing here · Skewsmith" }];
 
 /** Any address the app does not know: a 404 with the usual explanation (see the root error boundary). */
 export function loader() {

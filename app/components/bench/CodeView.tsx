@@ -70,7 +70,13 @@ export function CodeView({ name, text, label }: { name: string; text: string; la
           EditorState.readOnly.of(true),
           benchEditorTheme,
           languageFor(name),
-          EditorView.contentAttributes.of({ "aria-label": label, "aria-readonly": "true", role: "textbox", "aria-multiline": "true" }),
+          EditorView.contentAttributes.of({
+            "aria-label": label,
+            "aria-readonly": "true",
+            role: "textbox",
+            "aria-multiline": "true",
+            tabindex: "0",
+          }),
         ],
       }),
     });

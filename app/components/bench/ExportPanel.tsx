@@ -294,7 +294,7 @@ export function ExportPanel({
                   className={`num rounded border px-2 py-1 text-xs ${f.name === open ? "border-glass-400 bg-glass-900 text-glass-200" : "border-ink-600 text-ink-300 hover:border-ink-400"}`}
                 >
                   {f.name}{" "}
-                  <span className="text-ink-400">
+                  <span className={f.name === open ? "text-glass-300" : "text-ink-400"}>
                     {f.bytes.length < 1024 ? `${f.bytes.length} B` : `${(f.bytes.length / 1024).toFixed(1)} KiB`}
                   </span>
                 </button>

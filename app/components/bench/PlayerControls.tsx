@@ -65,21 +65,11 @@ export function PlayerControls({
         >
           {playing ? "Pause" : "Play"}
         </button>
-        <button
-          type="button"
-          className={buttonClass("secondary", "sm")}
-          onClick={() => onFrame(frame === 0 ? last : frame - 1)}
-          aria-label="Previous frame"
-        >
-          ◀ Step
+        <button type="button" className={buttonClass("secondary", "sm")} onClick={() => onFrame(frame === 0 ? last : frame - 1)}>
+          <span aria-hidden="true">◀ </span>Previous frame
         </button>
-        <button
-          type="button"
-          className={buttonClass("secondary", "sm")}
-          onClick={() => onFrame(frame === last ? 0 : frame + 1)}
-          aria-label="Next frame"
-        >
-          Step ▶
+        <button type="button" className={buttonClass("secondary", "sm")} onClick={() => onFrame(frame === last ? 0 : frame + 1)}>
+          Next frame<span aria-hidden="true"> ▶</span>
         </button>
         <label className="flex items-center gap-1.5 text-xs text-ink-300">
           Speed
