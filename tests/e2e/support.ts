@@ -7,19 +7,9 @@ import { expect, inject } from "vitest";
 import type { User } from "../../app/db/schema.ts";
 import { DEMO_PEOPLE } from "../../app/demo/people.ts";
 
-export const CHROMIUM = process.env.SKEWSMITH_CHROMIUM ?? "/usr/bin/chromium";
+import { CHROMIUM, CHROMIUM_ARGS } from "./chromium.ts";
 
-/** Flags for a headless Chromium in a container: no sandbox, no GPU, nothing that calls home. */
-export const CHROMIUM_ARGS = [
-  "--headless",
-  "--no-sandbox",
-  "--disable-gpu",
-  "--disable-quic",
-  "--no-first-run",
-  "--disable-background-networking",
-  "--disable-component-update",
-  "--disable-sync",
-];
+export { CHROMIUM, CHROMIUM_ARGS };
 
 const SHOTS = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../../test-results/e2e");
 
