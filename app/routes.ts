@@ -13,6 +13,8 @@ export default [
   route("effects/:effectId/document.json", "routes/effect.document.ts"),
   route("effects/:effectId/diagnostics.json", "routes/effect.diagnostics.ts"),
   route("effects/:effectId/sprites.json", "routes/effect.sprites.ts"),
+  route("effects/:effectId/export.zip", "routes/effect.export.ts"),
+  route("projects/:projectId/export.zip", "routes/project.export.ts"),
   route("sprites/:spriteId/image.png", "routes/sprite.image.ts"),
   route("dev/mailbox", "routes/dev.mailbox.tsx"),
   route("healthz", "routes/healthz.ts"),

@@ -2,7 +2,8 @@ import { canvasFit, compileShifts, frameDiagnostics, parseEffect, renderImage, t
 import { describe, expect, it } from "vitest";
 import { compassRose } from "../demo/art.ts";
 import { FramePainter, outline, prepareSource, TrackDiagnosis } from "./engine.ts";
-import { exportDefaults, exportInput, exportZipHref } from "./exportChoice.ts";
+import { profileExportDefaults } from "../exports.server.ts";
+import { exportChoiceFrom, exportInput, exportZipHref } from "./exportChoice.ts";
 import { growToFit } from "./fit.ts";
 
 const rose = compassRose(16);
@@ -119,9 +120,12 @@ describe("growing the canvas to fit", () => {
 
 describe("export choices", () => {
   it("takes the profile's dialects and label prefix, and builds the zip's address from the same options", () => {
-    const choice = exportDefaults({ dialects: ["ca65"], labelPrefix: "rose_", exportOptions: {} }, "Compass rose emblem");
+    const choice = exportChoiceFrom(
+      profileExportDefaults({ dialects: ["ca65"], labelPrefix: "rose_", exportOptions: {} }),
+      "Compass rose emblem",
+    );
     expect(choice).toMatchObject({ outputs: ["6502"], label: "rose", sign: "shift", element: "auto" });
-    expect(exportDefaults(null, "Storm background tilt")).toMatchObject({
+    expect(exportChoiceFrom(profileExportDefaults(null), "Storm background tilt")).toMatchObject({
       label: "storm_background_tilt",
       outputs: ["c", "6502", "68k", "arm", "z80", "bin", "json", "runtime"],
     });
@@ -131,7 +135,7 @@ describe("export choices", () => {
   });
 
   it("names the option core refuses", () => {
-    const choice = exportDefaults(null, "x");
+    const choice = exportChoiceFrom({}, "x");
     expect(exportInput({ ...choice, label: "9lives" }, "x")).toMatchObject({ ok: false, field: "label" });
     expect(exportInput({ ...choice, registerBits: "40" }, "x")).toMatchObject({ ok: false, field: "registerBits" });
   });

@@ -3,7 +3,6 @@
  * options made from them, and the address of the zip the server builds with the same options.
  */
 import {
-  checkLabel,
   ELEMENT_CHOICES,
   EXPORT_OUTPUTS,
   ExportOptionError,
@@ -41,75 +40,22 @@ export const OUTPUT_LABELS: Record<ExportOutput, string> = {
   runtime: "Run-time routine in C",
 };
 
-/** Dialect names a target profile may list, and the output each stands for. */
-const DIALECT_OUTPUT: Record<string, ExportOutput> = {
-  c: "c",
-  c99: "c",
-  "6502": "6502",
-  ca65: "6502",
-  "65816": "6502",
-  "68k": "68k",
-  m68k: "68k",
-  "68000": "68k",
-  arm: "arm",
-  gba: "arm",
-  z80: "z80",
-  sm83: "z80",
-  bin: "bin",
-  binary: "bin",
-  json: "json",
-  runtime: "runtime",
-};
-
-/** The target profile's part in the defaults. */
-export interface ProfileExport {
-  dialects: string[];
-  labelPrefix: string;
-  exportOptions: Record<string, unknown>;
-}
-
-function validLabel(label: string): string | null {
-  try {
-    return checkLabel(label);
-  } catch {
-    return null;
-  }
-}
-
 /**
- * The defaults: the profile's dialects (every output when it lists none) and its label prefix (a prefix such as
- * "rose_" gives the label "rose", whose tables are rose_h, rose_v, …), then the profile's own export options where
- * core accepts them; without a profile, the label made from the effect's name.
+ * The panel's choices for export defaults (the server's profileExportDefaults: the profile's dialects, label prefix and
+ * stored options), resolved by core; the label falls back to one made from the effect's name.
  */
-export function exportDefaults(profile: ProfileExport | null, effectName: string): ExportChoice {
-  const outputs = [...new Set((profile?.dialects ?? []).map((d) => DIALECT_OUTPUT[d.trim().toLowerCase()]).filter(Boolean))];
-  const prefix = validLabel((profile?.labelPrefix ?? "").replace(/_+$/, ""));
-  const choice: ExportChoice = {
-    outputs: outputs.length > 0 ? EXPORT_OUTPUTS.filter((o) => outputs.includes(o)) : [...EXPORT_OUTPUTS],
-    label: prefix ?? labelFromName(effectName),
-    sign: "shift",
-    registerBits: "",
-    element: "auto",
-    split: false,
-    half: false,
-    dedupe: false,
+export function exportChoiceFrom(defaults: ExportOptionsInput, effectName: string): ExportChoice {
+  const resolved = resolveExportOptions({ ...defaults, name: effectName, label: defaults.label ?? labelFromName(effectName) });
+  return {
+    outputs: [...resolved.outputs],
+    label: resolved.label,
+    sign: resolved.sign,
+    registerBits: resolved.registerBits === null ? "" : String(resolved.registerBits),
+    element: resolved.element,
+    split: resolved.split,
+    half: resolved.half,
+    dedupe: resolved.dedupe,
   };
-  const extra = profile?.exportOptions ?? {};
-  try {
-    const resolved = resolveExportOptions({ ...(extra as ExportOptionsInput), label: choice.label, outputs: choice.outputs });
-    return {
-      ...choice,
-      outputs: [...resolved.outputs],
-      sign: resolved.sign,
-      registerBits: resolved.registerBits === null ? "" : String(resolved.registerBits),
-      element: resolved.element,
-      split: resolved.split,
-      half: resolved.half,
-      dedupe: resolved.dedupe,
-    };
-  } catch {
-    return choice;
-  }
 }
 
 /** Core's export options for a choice, or the message of the first bad one (core's words, naming the option). */

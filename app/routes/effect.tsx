@@ -2,7 +2,8 @@ import { data, isRouteErrorResponse, Link } from "react-router";
 import type { Route } from "./+types/effect";
 import { invalid, unknownIntent } from "../actions.server.ts";
 import { stateToDraft, type BenchDraft } from "../bench/draft.ts";
-import { exportDefaults } from "../bench/exportChoice.ts";
+import { exportChoiceFrom } from "../bench/exportChoice.ts";
+import { profileExportDefaults } from "../exports.server.ts";
 import { benchErrors, benchForm, saveForm } from "../bench/form.ts";
 import { benchState, savedDiagnostics } from "../bench/saved.server.ts";
 import { viewFromSearch } from "../bench/view.ts";
@@ -62,7 +63,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     })),
     sprites,
     diagnostics,
-    exportDefaults: exportDefaults(profile, effect.name),
+    exportDefaults: exportChoiceFrom(profileExportDefaults(profile), effect.name),
     view: viewFromSearch(new URL(request.url).searchParams, frames, saved.document.canvas),
   };
 }
