@@ -4,6 +4,7 @@
  */
 import { checkEffect, EFFECT_FORMAT, type Effect, type EffectIssue } from "@skewsmith/core";
 import { z } from "zod";
+import { fieldErrors } from "../forms.ts";
 import type { BenchState, DraftField, KeyPixel } from "./draft.ts";
 
 /** Most key pixels one effect may mark: enough for every feature that must read well, few enough to draw on every frame. */
@@ -226,12 +227,9 @@ export type BenchErrors = Record<string, string>;
 
 /** The messages of a failed parse, every bad list line kept (keys "angleList.<line>"), the first message per other field. */
 export function benchErrors(error: z.ZodError): BenchErrors {
-  const out: BenchErrors = {};
-  for (const issue of error.issues) {
-    const key = issue.path.join(".") || "form";
-    out[key] ??= issue.message;
-    if (issue.path[0] === "angleList" && issue.path.length > 1) out.angleList ??= issue.message;
-  }
+  const out: BenchErrors = fieldErrors(error);
+  const firstLine = error.issues.find((i) => i.path[0] === "angleList" && i.path.length > 1);
+  if (firstLine) out.angleList ??= firstLine.message;
   return out;
 }
 

@@ -1,7 +1,6 @@
 /** The page's side of the bench worker: one worker per bench, its results as React state, frames and exports as promises. */
 import type { BudgetReport, CanvasFit, Effect, ExportOptionsInput } from "@skewsmith/core";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import type { KeyPixel } from "./draft.ts";
 import type { FramePicture, FrameRow, FrameWants } from "./engine.ts";
 import type { ExportFile, FromWorker, Loaded, ToWorker } from "./protocol.ts";
 import type { Pass } from "./view.ts";
@@ -19,14 +18,8 @@ export interface WorkerState {
   error: string | null;
 }
 
-export interface LoadInput {
-  document: Effect;
-  sprite: { id: string; url: string } | null;
-  spriteX: number | null;
-  spriteY: number | null;
-  keyPixels: KeyPixel[];
-  align: number;
-}
+/** What a load sends besides its generation: the effect, its sprite and placement, key pixels, the fit's rounding. */
+export type LoadInput = Omit<Extract<ToWorker, { type: "load" }>, "type" | "generation">;
 
 export type FrameAnswer = { index: number; pass: Pass; degrees: number; picture: FramePicture; generation: number };
 

@@ -96,12 +96,16 @@ describe("a person with no team", () => {
     await row(page, "Lighthouse sweep copy").waitFor();
     await screenshot(page, "project-newcomer");
 
-    // The effect page shows its settings and the validated document.
+    // The effect's bench shows its settings and measures its 64 frames; the document download is the validated one.
     await row(page, "Lighthouse sweep").getByRole("link", { name: "Lighthouse sweep" }).click();
-    await page.waitForURL(/\/effects\/[0-9a-f-]{36}$/);
-    await expect.poll(() => page.getByTestId("frame-count").textContent()).toBe("64");
-    const document = JSON.parse((await page.getByTestId("effect-document").textContent())!);
-    expect(document).toMatchObject({
+    await page.waitForURL(/\/effects\/[0-9a-f-]{36}(\?.*)?$/);
+    await expect.poll(() => page.getByTestId("frame-table").locator("tbody tr").count()).toBe(64);
+    expect([await page.getByLabel("Width", { exact: true }).inputValue(), await page.getByLabel("Pivot x").inputValue()]).toEqual([
+      "64",
+      "32",
+    ]);
+    const download = await page.request.get(`${new URL(page.url()).pathname}/document.json`);
+    expect(await download.json()).toMatchObject({
       format: "skewsmith.effect/1",
       canvas: { width: 64, height: 64 },
       pivot: { x: 32, y: 32 },
