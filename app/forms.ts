@@ -9,11 +9,11 @@ export const NAME_MAX = 80;
 export const DESCRIPTION_MAX = 2000;
 
 /** C0 and C1 control characters and DEL: never allowed in a name. */
-const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
+export const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
 /** The same, but a description may hold tabs and line breaks. */
 const CONTROL_IN_TEXT = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/;
 /** Bidirectional embeddings, overrides, isolates and marks: they can make a name read as something else. */
-const BIDI = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
+export const BIDI = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
 
 /**
  * The one text rule for every name (teams, projects, effects, sprites, target profiles, tokens): trimmed, 1 to

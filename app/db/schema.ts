@@ -220,7 +220,7 @@ export const sprites = pgTable(
     version: version(),
     ...timestamps,
   },
-  (t) => [index().on(t.projectId)],
+  (t) => [index().on(t.projectId), uniqueIndex("sprites_project_name_key").on(t.projectId, sql`lower(${t.name})`)],
 );
 
 export const effects = pgTable(
@@ -229,6 +229,8 @@ export const effects = pgTable(
     id: uuidKey(),
     projectId: projectRef(),
     name: text().notNull(),
+    /** What the effect is for, and anything it shows on purpose (say, a canvas kept tight to teach something). */
+    description: text().notNull().default(""),
     /** The effect document (skewsmith.effect/1), stored only after core's parseEffect accepted it. */
     document: jsonb().$type<EffectDocument>().notNull(),
     /** Bumped on every change of the document; a save names the version it started from. */

@@ -6,7 +6,7 @@ import { ActivityList } from "../components/ActivityList.tsx";
 import { InlineCreateForm } from "../components/InlineCreateForm.tsx";
 import { ProfilesTable } from "../components/ProfilesTable.tsx";
 import { RestoreList } from "../components/RestoreList.tsx";
-import { SpriteFacts, SpriteImage } from "../components/Sprite.tsx";
+import { SpriteLibrary } from "../components/SpriteLibrary.tsx";
 import { useFormCheck } from "../components/useFormCheck.ts";
 import {
   ActionsHeader,
@@ -396,29 +396,10 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
           countLabel="Used here"
         />
       </Panel>
-      <div className="grid gap-8 lg:grid-cols-[2fr_3fr]">
-        <Panel title="Sprites" id="sprites">
-          {sprites.length === 0 ? (
-            <EmptyState title="No sprites in this project">
-              Sprites are indexed (palette) PNG pictures that effects turn; the demo project shows two.
-            </EmptyState>
-          ) : (
-            <ul className="flex flex-col gap-3">
-              {sprites.map((s) => (
-                <li key={s.id} className="flex items-center gap-3">
-                  <SpriteImage sprite={s} width={48} height={48} className="h-12 w-12 object-contain" />
-                  <div className="text-sm">
-                    <SpriteFacts sprite={s} />
-                  </div>
-                </li>
-              ))}
-            </ul>
-          )}
-        </Panel>
-        <Panel title="Recent activity" id="activity">
-          <ActivityList items={activity} />
-        </Panel>
-      </div>
+      <SpriteLibrary projectId={project.id} sprites={sprites} canEdit={canEdit && !archived} />
+      <Panel title="Recent activity" id="activity">
+        <ActivityList items={activity} />
+      </Panel>
     </div>
   );
 }
