@@ -17,9 +17,14 @@ const fetchList = async (url: string): Promise<LibrarySprite[]> => {
   return response.json();
 };
 
-/** Largest integer zoom at which the sprite fits a box of `box` pixels (at least 1: big sprites scroll instead). */
-export const fitZoom = (sprite: { width: number; height: number }, box = 320) =>
-  Math.max(1, Math.min(16, Math.floor(Math.min(box / sprite.width, box / sprite.height))));
+/** The zooms offered, in whole screen pixels per sprite pixel. */
+const ZOOMS = [1, 2, 3, 4, 6, 8, 12, 16];
+
+/** Largest offered zoom at which the sprite fits a box of `box` pixels (at least 1: big sprites scroll instead). */
+export const fitZoom = (sprite: { width: number; height: number }, box = 320) => {
+  const most = Math.floor(Math.min(box / sprite.width, box / sprite.height));
+  return ZOOMS.filter((z) => z <= most).pop() ?? 1;
+};
 
 const kindWords = (s: LibrarySprite) => (s.kind === "indexed" ? `indexed, ${s.colours} colour${s.colours === 1 ? "" : "s"}` : "RGBA");
 const hex = (c: readonly number[]) =>
@@ -33,7 +38,18 @@ const hex = (c: readonly number[]) =>
  * effects that use it; for editors the upload (file input or drag-and-drop), rename, replace and delete. The list
  * comes from the page's loader and refreshes itself from `/projects/:id/sprites.json` when the window regains focus.
  */
-export function SpriteLibrary({ projectId, sprites, canEdit }: { projectId: string; sprites: LibrarySprite[]; canEdit: boolean }) {
+export function SpriteLibrary({
+  projectId,
+  sprites,
+  canEdit,
+  standalone = false,
+}: {
+  projectId: string;
+  sprites: LibrarySprite[];
+  canEdit: boolean;
+  /** On the library's own page: link back to the project instead of to itself. */
+  standalone?: boolean;
+}) {
   const key = `/projects/${projectId}/sprites.json`;
   const { data, mutate } = useSWR(key, fetchList, { fallbackData: sprites, revalidateOnMount: false, revalidateOnFocus: true });
   // After an action the page's loader runs again; its list is the newest, so it replaces whatever SWR holds.
@@ -57,8 +73,8 @@ export function SpriteLibrary({ projectId, sprites, canEdit }: { projectId: stri
       title={<Counted label="Sprites" count={list.length} />}
       id="sprites"
       actions={
-        <Link to={action} className="text-xs text-ink-400 hover:text-glass-300">
-          Open the library on its own page
+        <Link to={standalone ? `/projects/${projectId}` : action} className="text-xs text-ink-400 hover:text-glass-300">
+          {standalone ? "Back to the project" : "Open the library on its own page"}
         </Link>
       }
     >
@@ -125,7 +141,7 @@ function SpriteDetail({ sprite, action, canEdit }: { sprite: LibrarySprite; acti
             Zoom
           </label>
           <Select id={`zoom-${sprite.id}`} value={zoom} onChange={(e) => setZoom(Number(e.target.value))} className="w-20 py-1">
-            {[1, 2, 3, 4, 6, 8, 12, 16].map((z) => (
+            {ZOOMS.map((z) => (
               <option key={z} value={z}>
                 {z}×
               </option>
@@ -154,10 +170,10 @@ function SpriteDetail({ sprite, action, canEdit }: { sprite: LibrarySprite; acti
         <dd className="num">
           {byteWords(sprite.byteSize)} · v{sprite.version}
         </dd>
-        <dt className="text-ink-400">Uploaded</dt>
+        <dt className="text-ink-400">Changed</dt>
         <dd>
           <Timestamp value={sprite.updatedAt} />
-          {sprite.uploadedByName ? <span className="text-ink-400"> by {sprite.uploadedByName}</span> : null}
+          {sprite.uploadedByName ? <span className="text-ink-400"> · picture from {sprite.uploadedByName}</span> : null}
         </dd>
         <dt className="text-ink-400">Used by</dt>
         <dd data-testid="sprite-used-by">
@@ -246,7 +262,9 @@ function useSpriteForm(sprite: LibrarySprite, intent: string, fetcher: Fetcher) 
 }
 
 const SUMMARY = `${buttonClass("secondary", "sm")} list-none`;
-const BOX = "mt-2 flex w-72 max-w-[calc(100vw-4rem)] flex-col gap-3 rounded-md border border-ink-600 bg-ink-850 p-3";
+/** A form that opens under its button, over the page rather than pushing it (left-aligned; `right-0` for the last one). */
+const BOX =
+  "absolute top-full z-20 mt-1 flex w-72 max-w-[calc(100vw-4rem)] flex-col gap-3 rounded-md border border-ink-600 bg-ink-850 p-3 shadow-lg shadow-black/40";
 
 function Hidden({ sprite }: { sprite: LibrarySprite }) {
   return (
@@ -260,9 +278,9 @@ function Hidden({ sprite }: { sprite: LibrarySprite }) {
 function RenameBox({ sprite, action, fetcher }: { sprite: LibrarySprite; action: string; fetcher: Fetcher }) {
   const { box, errors, busy } = useSpriteForm(sprite, "rename-sprite", fetcher);
   return (
-    <details ref={box} open={errors ? true : undefined}>
+    <details ref={box} open={errors ? true : undefined} className="relative">
       <summary className={SUMMARY}>Rename</summary>
-      <fetcher.Form method="post" action={action} noValidate className={BOX} aria-label={`Rename ${sprite.name}`}>
+      <fetcher.Form method="post" action={action} noValidate className={`${BOX} left-0`} aria-label={`Rename ${sprite.name}`}>
         <Hidden sprite={sprite} />
         <Field label="New name" name={`rename-sprite-${sprite.id}`} error={errors?.name}>
           <TextInput
@@ -288,14 +306,14 @@ function ReplaceBox({ sprite, action, fetcher }: { sprite: LibrarySprite; action
   const [bad, setBad] = useState(false);
   const live = sprite.usedBy.filter((u) => !u.deleted).length;
   return (
-    <details ref={box} open={errors ? true : undefined}>
+    <details ref={box} open={errors ? true : undefined} className="relative">
       <summary className={SUMMARY}>Replace picture</summary>
       <fetcher.Form
         method="post"
         action={action}
         encType="multipart/form-data"
         noValidate
-        className={`${BOX} w-80`}
+        className={`${BOX} left-0 w-80`}
         aria-label={`Replace the picture of ${sprite.name}`}
         onSubmit={(event) => {
           if (bad) event.preventDefault();
@@ -330,9 +348,9 @@ function DeleteBox({ sprite, action }: { sprite: LibrarySprite; action: string }
   const live = sprite.usedBy.filter((u) => !u.deleted);
   const deleted = sprite.usedBy.length - live.length;
   return (
-    <details ref={box} open={errors ? true : undefined}>
-      <summary className={`${SUMMARY} text-alert-300`}>Delete…</summary>
-      <fetcher.Form method="post" action={action} className={`${BOX} w-80`} aria-label={`Delete ${sprite.name}`}>
+    <details ref={box} open={errors ? true : undefined} className="relative">
+      <summary className={`${buttonClass("danger", "sm")} list-none border border-alert-400/40`}>Delete…</summary>
+      <fetcher.Form method="post" action={action} className={`${BOX} right-0 w-80`} aria-label={`Delete ${sprite.name}`}>
         <Hidden sprite={sprite} />
         <input type="hidden" name="users" value={sprite.usedBy.map((u) => u.id).join(",")} />
         <p className="text-sm text-ink-200" data-testid="delete-sprite-warning">
@@ -348,8 +366,10 @@ function DeleteBox({ sprite, action }: { sprite: LibrarySprite; action: string }
               ) : (
                 <>Only deleted effects use {sprite.name}. </>
               )}
-              Deleting it detaches it from them: they keep their settings, and their key pixels stay on the same canvas pixels. Deleting
-              cannot be undone.
+              {sprite.usedBy.length === 1
+                ? "Deleting it detaches it from that effect: it keeps its settings, and its key pixels stay on the same canvas pixels."
+                : "Deleting it detaches it from those effects: they keep their settings, and their key pixels stay on the same canvas pixels."}{" "}
+              Deleting cannot be undone.
             </>
           )}
         </p>

@@ -16,8 +16,8 @@ export interface FileCheck {
 /** Bytes in words: "812 bytes", "3.4 KiB", "1.20 MiB". */
 export function byteWords(n: number): string {
   if (n < 1024) return `${n} byte${n === 1 ? "" : "s"}`;
-  if (n < 1024 * 1024) return `${(n / 1024).toFixed(1)} KiB`;
-  return `${(n / 1024 / 1024).toFixed(2)} MiB`;
+  const [value, unit] = n < 1024 * 1024 ? [n / 1024, "KiB"] : [n / 1024 / 1024, "MiB"];
+  return `${Number.isInteger(value) ? value : value.toFixed(value < 10 ? 2 : 1)} ${unit}`;
 }
 
 /** The same size and header checks the server runs first, on the file's size and its first 33 bytes. */

@@ -15,16 +15,18 @@ function fail(status: number, message: string): never {
   throw data({ message }, { status });
 }
 
-/** The effect's validated document and its source (the sprite placed in the canvas); 409 when no sprite is attached. */
-export async function effectSource(db: Db, effect: EffectRow): Promise<{ document: Effect; source: Image; tag: string }> {
-  const document = validDocument(effect.document);
+/** The effect's document, validated by core (filling any default a newer core adds). */
+export const effectDocument = (effect: EffectRow): Effect => validDocument(effect.document);
+
+/** The effect's source (its sprite placed in the canvas) and a tag that changes with it; 409 when no sprite is attached. */
+export async function effectSource(db: Db, effect: EffectRow, document: Effect): Promise<{ source: Image; tag: string }> {
   const loaded = effect.spriteId ? await getSpriteImage(db, effect.spriteId) : null;
   if (!loaded)
     fail(409, `${effect.name} has no sprite attached, so it has no frames to draw. Attach a sprite to the effect in the bench first.`);
   const { sprite, image } = loaded;
   // Changes to the effect (document, placement) move updatedAt; a replaced picture bumps the sprite's version.
   const tag = `${effect.id}.${effect.version}.${effect.updatedAt.getTime()}.${sprite.id}.${sprite.version}`;
-  return { document, source: placedSource(document, image, effect.spriteX, effect.spriteY), tag };
+  return { source: placedSource(document, image, effect.spriteX, effect.spriteY), tag };
 }
 
 /** A whole number from the query, `fallback` when absent; 400 naming the parameter and the range when it is anything else. */

@@ -1,10 +1,10 @@
+import { data } from "react-router";
 import type { Route } from "./+types/effect.frame";
 import { db } from "../db.server.ts";
-import { effectSource, passParam, pngResponse } from "../effects/frames.server.ts";
+import { effectDocument, effectSource, passParam, pngResponse } from "../effects/frames.server.ts";
 import { frameCount, framePicture } from "../effects/frames.ts";
 import { fileSlug } from "../files.ts";
 import { requireEffectRole } from "../guards.server.ts";
-import { data } from "react-router";
 
 /**
  * `GET /effects/:effectId/frames/:n.png?pass=P`: frame n (0-based) after pass P (0 the placed source, 1, 2, 3 the
@@ -13,9 +13,8 @@ import { data } from "react-router";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { effect } = await requireEffectRole(request, params.effectId, "viewer");
-  const url = new URL(request.url);
-  const pass = passParam(url);
-  const { document, source, tag } = await effectSource(db(), effect);
+  const pass = passParam(new URL(request.url));
+  const document = effectDocument(effect);
   const frames = frameCount(document);
   const match = /^(0|[1-9]\d{0,8})\.png$/.exec(params.frameFile);
   const n = match ? Number(match[1]) : NaN;
@@ -26,6 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       },
       { status: 400 },
     );
+  const { source, tag } = await effectSource(db(), effect, document);
   const name = `${fileSlug(effect.name, "effect")}-frame-${n}${pass === 3 ? "" : `-pass-${pass}`}.png`;
   return pngResponse(request, `${tag}.${n}.${pass}`, name, () => framePicture(document, source, n, pass));
 }

@@ -130,7 +130,7 @@ export async function action({ request, params }: Route.ActionArgs) {
           actorId,
         });
         return {
-          message: `Deleted ${name}.${detached.length ? ` Detached it from ${detached.join(", ")}; ${detached.length === 1 ? "that effect keeps" : "those effects keep"} their settings.` : ""}`,
+          message: `Deleted ${name}.${detached.length ? ` Detached it from ${detached.join(", ")}; ${detached.length === 1 ? "that effect keeps its" : "those effects keep their"} settings.` : ""}`,
         };
       });
     }
@@ -166,7 +166,7 @@ export default function ProjectSpritesPage({ loaderData, actionData }: Route.Com
         {actionData?.ok && actionData.message ? <Notice>{actionData.message}</Notice> : null}
         <FormError>{errors.length ? errors.join(" ") : undefined}</FormError>
       </div>
-      <SpriteLibrary projectId={project.id} sprites={sprites} canEdit={hasRole(role, "editor") && !project.archived} />
+      <SpriteLibrary projectId={project.id} sprites={sprites} canEdit={hasRole(role, "editor") && !project.archived} standalone />
     </div>
   );
 }
