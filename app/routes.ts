@@ -15,6 +15,8 @@ export default [
   route("effects/:effectId/document.json", "routes/effect.document.ts"),
   route("effects/:effectId/frames/:frameFile", "routes/effect.frame.ts"),
   route("effects/:effectId/frames.png", "routes/effect.frames.ts"),
+  route("effects/:effectId/export.zip", "routes/effect.export.ts"),
+  route("projects/:projectId/export.zip", "routes/project.export.ts"),
   route("sprites/:spriteId/image.png", "routes/sprite.image.ts"),
   route("dev/mailbox", "routes/dev.mailbox.tsx"),
   route("healthz", "routes/healthz.ts"),
