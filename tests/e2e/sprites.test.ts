@@ -147,6 +147,29 @@ describe("an editor's sprite library", () => {
     expect(jpeg.status()).toBe(400);
     expect(await jpeg.text()).toContain("it looks like a JPEG picture");
     await page.getByLabel("PNG file", { exact: true }).setInputFiles([]);
+    // Hostile bodies get a 4xx with a reason, never a 500.
+    const sprites = `/projects/${project.id}/sprites`;
+    for (const [options, status, text] of [
+      [{ data: { intent: "upload-sprite" } }, 415, "This address takes a form"],
+      [{ form: { intent: "upload-sprite", file: "not a file" } }, 400, "Choose a PNG file first."],
+      [
+        { form: { intent: "rename-sprite", spriteId: "1; drop table sprites", version: "1", name: "x" } },
+        400,
+        "That sprite does not exist.",
+      ],
+      [{ form: { intent: "delete-sprite", spriteId: stored.id, version: "x" } }, 400, "reload the page"],
+      [
+        { form: { intent: "delete-sprite", spriteId: stored.id, version: "1", users: "a,b" } },
+        400,
+        "The list of effects in the form is damaged",
+      ],
+      [{ form: { intent: "rename-sprite", spriteId: stored.id, version: "1", name: "bad\u202ename" } }, 400, "bidirectional"],
+      [{ form: { intent: "launch" } }, 400, "is not known here"],
+    ] as const) {
+      const response = await page.request.post(sprites, options);
+      expect(response.status(), JSON.stringify(options)).toBe(status);
+      expect(await response.text()).toContain(text);
+    }
 
     // Rename, then a rename from a page that still shows the old version is refused.
     await item(page, "glass.png").click();
