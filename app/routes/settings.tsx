@@ -260,6 +260,7 @@ export default function SettingsPage({ loaderData, actionData }: Route.Component
           )}
         </div>
         <InlineCreateForm
+          key={created?.id ?? "new"}
           label="New API token"
           columns="md:grid-cols-[2fr_1fr_1fr_auto]"
           intent="create-token"
