@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { ROLES } from "./roles.ts";
+import { TOKEN_SCOPES } from "./tokens.ts";
 
 export const NAME_MAX = 80;
 export const DESCRIPTION_MAX = 2000;
@@ -70,6 +71,29 @@ export const createEffectForm = z.object({
 export const effectForm = z.object({ effectId: id("effect") });
 
 export const renameEffectForm = z.object({ effectId: id("effect"), name: name("effect") });
+
+/** How long a new API token may last, in days; null means until revoked. */
+export const TOKEN_LIFETIMES = [7, 30, 90, 365] as const;
+export const DEFAULT_TOKEN_LIFETIME = 90;
+
+/** A new API token: a name, a scope, and how many days it lasts (empty or "never": until revoked). Shared by the settings page and `POST /api/v1/tokens`. */
+export const createTokenForm = z.object({
+  name: name("token"),
+  scope: z.enum(TOKEN_SCOPES, { error: `Choose a scope: ${TOKEN_SCOPES.map((s) => `“${s}”`).join(" or ")}.` }),
+  expiresInDays: z
+    .preprocess(
+      (v) => (v === "" || v === "never" || v === null ? null : typeof v === "string" && /^\d+$/.test(v) ? Number(v) : v),
+      z
+        .number({ error: `Choose how long the token lasts: ${TOKEN_LIFETIMES.join(", ")} days, or never (until revoked).` })
+        .refine((d) => (TOKEN_LIFETIMES as readonly number[]).includes(d), {
+          error: `Choose how long the token lasts: ${TOKEN_LIFETIMES.join(", ")} days, or never (until revoked).`,
+        })
+        .nullable(),
+    )
+    .default(DEFAULT_TOKEN_LIFETIME),
+});
+
+export const revokeTokenForm = z.object({ tokenId: id("token") });
 
 /** Field messages of a failed parse, one string per field (the first problem found). */
 export type FieldErrors = Record<string, string>;

@@ -22,13 +22,12 @@ import {
 } from "drizzle-orm/pg-core";
 import type { Effect as EffectDocument } from "@skewsmith/core";
 import { ROLES, type Role } from "../roles.ts";
+import { TOKEN_SCOPES, type TokenScope } from "../tokens.ts";
 
 export { ROLES, type Role };
 export const roleEnum = pgEnum("role", ROLES);
 
-/** What an API token may do: read, or write (which includes read). */
-export const TOKEN_SCOPES = ["read", "write"] as const;
-export type TokenScope = (typeof TOKEN_SCOPES)[number];
+export { TOKEN_SCOPES, type TokenScope };
 export const tokenScopeEnum = pgEnum("token_scope", TOKEN_SCOPES);
 
 /** How a sprite's pixels are kept: palette indices, or 8-bit RGBA. */
