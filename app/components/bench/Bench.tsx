@@ -52,7 +52,7 @@ function useReducedMotion(): boolean {
 
 export function Bench({ data }: { data: Data }) {
   const { effect, team, project, role, editable, profiles } = data;
-  const sprites = useSWR<SpriteChoice[]>(`/effects/${effect.id}/sprites.json`, json, {
+  const sprites = useSWR<SpriteChoice[]>(`/projects/${project.id}/sprites.json`, json, {
     fallbackData: data.sprites as SpriteChoice[],
     revalidateOnMount: false,
   });
@@ -274,6 +274,11 @@ export function Bench({ data }: { data: Data }) {
           }
           actions={
             <>
+              {data.saved.spriteId ? (
+                <a href={`/effects/${effect.id}/frames.png`} className={buttonClass("secondary", "sm")} target="_blank" rel="noreferrer">
+                  Contact sheet (PNG)
+                </a>
+              ) : null}
               <a href={`/effects/${effect.id}/document.json`} className={buttonClass("secondary", "sm")} download>
                 Download effect document
               </a>

@@ -21,7 +21,6 @@ export interface SpriteChoice {
   name: string;
   width: number;
   height: number;
-  colours: number;
 }
 
 export type PointerMode = "view" | "pivot" | "keys";
