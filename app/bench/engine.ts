@@ -95,7 +95,8 @@ export function prepareSource(
   keyPixels: readonly (readonly [number, number])[],
 ): BenchSource {
   const { width, height } = effect.canvas;
-  const placement = sprite ? spritePlacement(effect.canvas, sprite, spriteX, spriteY) : null;
+  const placed = sprite ? spritePlacement(effect.canvas, sprite, spriteX, spriteY) : null;
+  const placement = placed ? { x: placed.x, y: placed.y } : null;
   const image = sprite && placement ? placeImage(sprite, width, height, placement.x, placement.y) : testCard(width, height);
   const mask = sprite ? opaqueMask(image) : null;
   let content = width * height;

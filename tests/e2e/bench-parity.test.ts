@@ -40,7 +40,7 @@ const CASES = [
       edges: "clip",
       columnGroup: 4,
     },
-    frames: [1, 2, 3],
+    frames: [2, 3],
   },
   {
     name: "an eased tilt with nearest-up rounding",
@@ -50,7 +50,7 @@ const CASES = [
       angles: { sweep: { from: -12, to: 12, frames: 9, easing: "ease-in-out", includeEnd: true } },
       rounding: "nearest-up",
     },
-    frames: [0, 4, 8],
+    frames: [0, 8],
   },
 ];
 
@@ -88,28 +88,26 @@ describe("browser and command line agree", () => {
 
         // Pixels: the preview at zoom 1 with no overlay is the frame itself; the command line renders the same frames.
         const expected = new Map<string, number[]>();
-        await Promise.all(
-          c.frames.flatMap((frame) =>
-            [1, 2, 3].map(async (pass) => {
-              const out = `f${frame}p${pass}.png`;
-              const rendered = await dir.run(
-                "render",
-                effectFile,
-                "--image",
-                "canvas.png",
-                "--frame",
-                String(frame),
-                "--pass",
-                String(pass),
-                "--out",
-                out,
-              );
-              expect(rendered.code, rendered.stderr).toBe(0);
-              const image = decodePng(readFileSync(dir.path(out))) as IndexedImage;
-              expected.set(`${frame}/${pass}`, Array.from(image.data, (i) => image.palette[i]).flat());
-            }),
-          ),
-        );
+        // One command at a time: each starts a Node process, and the browser tests share two cores with the rest.
+        for (const frame of c.frames)
+          for (const pass of [1, 2, 3]) {
+            const out = `f${frame}p${pass}.png`;
+            const rendered = await dir.run(
+              "render",
+              effectFile,
+              "--image",
+              "canvas.png",
+              "--frame",
+              String(frame),
+              "--pass",
+              String(pass),
+              "--out",
+              out,
+            );
+            expect(rendered.code, rendered.stderr).toBe(0);
+            const image = decodePng(readFileSync(dir.path(out))) as IndexedImage;
+            expected.set(`${frame}/${pass}`, Array.from(image.data, (i) => image.palette[i]).flat());
+          }
         await page.goto(`/effects/${world.effect.id}?frame=${c.frames[0]}&pass=1&zoom=1`);
         await waitForTable(page, frames);
         for (const frame of c.frames) {
