@@ -62,8 +62,9 @@ export function checkProfileInput(input: unknown): TargetProfileInput {
   const parsed = targetProfileInput.safeParse(input);
   if (!parsed.success) {
     const [path, message] = Object.entries(fieldErrors(parsed.error))[0];
-    // "exportOptions.sign" is the form's "sign".
-    throw new DomainError(message, { field: path.startsWith("exportOptions.") ? path.slice("exportOptions.".length) : path });
+    // The form's field: "exportOptions.sign" is the form's "sign", "dialects.2" its "dialects".
+    const [head, next] = path.split(".");
+    throw new DomainError(message, { field: head === "exportOptions" && next ? next : head });
   }
   const settings = parsed.data;
   try {

@@ -176,9 +176,13 @@ type LoaderData = Route.ComponentProps["loaderData"];
 
 function ResultNotice({ result, intents }: { result: MembersResult | undefined; intents: string[] }) {
   if (!result || !intents.includes(result.intent)) return null;
-  // Refusals about one row (a role change, a resend) are shown in that row.
+  // Refusals about one row (a role change, a resend) are shown in that row, field messages next to their field.
   if (!result.ok)
-    return result.subject && result.intent !== "remove-member" ? null : <FormError>{Object.values(result.errors)[0]}</FormError>;
+    return (
+      <FormError>
+        {result.intent === "remove-member" ? Object.values(result.errors)[0] : result.subject ? undefined : result.errors.form}
+      </FormError>
+    );
   return (
     <div className="flex flex-col gap-2" data-testid="members-result">
       {result.message ? <Notice>{result.message}</Notice> : null}
@@ -327,11 +331,14 @@ export default function TeamMembers({ loaderData, actionData }: Route.ComponentP
   const result = actionData as MembersResult | undefined;
   const isOwner = role === "owner";
   // Every new answer puts the role menus back to the roles members really have (a refused change leaves none chosen).
+  // A sent invitation empties the invite form for the next one (a refused one keeps what was typed).
   const [answers, setAnswers] = useState(0);
+  const [invites, setInvites] = useState(0);
   const [seen, setSeen] = useState(result);
   if (result !== seen) {
     setSeen(result);
     setAnswers((n) => n + 1);
+    if (result?.ok && result.intent === "invite") setInvites((n) => n + 1);
   }
   const rowError = (intent: string, subject: string) => {
     const errors = errorsFor(result, intent, subject);
@@ -396,6 +403,7 @@ export default function TeamMembers({ loaderData, actionData }: Route.ComponentP
             <ResultNotice result={result} intents={["invite", "resend-invitation", "revoke-invitation"]} />
           </div>
           <Form
+            key={invites}
             method="post"
             preventScrollReset
             className="grid gap-3 md:grid-cols-[3fr_1fr_auto] md:items-start"

@@ -60,7 +60,7 @@ function wholeField(form: FormData, name: string): number | null {
   return /^\d{1,9}$/.test(text) ? Number(text) : null;
 }
 
-type SaveResult = ActionResult & { values?: ProfileFormValues; startedFrom?: number };
+type SaveResult = ActionResult & { values?: ProfileFormValues; startedFrom?: number; stale?: boolean };
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, team, role, profile } = await requireTeamProfile(request, params.teamId, params.profileId, "viewer");
@@ -92,7 +92,8 @@ export async function action({ request, params }: Route.ActionArgs) {
         return `Saved version ${saved.profile.version}.${flowed}`;
       });
       if (result.data.ok) return result;
-      return data<SaveResult>({ ...result.data, values, startedFrom: expectedVersion }, { status: result.init?.status ?? 400 });
+      const status = result.init?.status ?? 400;
+      return data<SaveResult>({ ...result.data, values, startedFrom: expectedVersion, stale: status === 409 }, { status });
     }
     case "duplicate-profile": {
       let copyId = "";
@@ -184,12 +185,12 @@ export default function ProfilePage({ loaderData, actionData }: Route.ComponentP
         <div className="flex flex-col gap-3">
           {saved ? <Notice>{saved}</Notice> : null}
           <FormError>{deleteErrors?.form ?? errorsFor(actionData, "duplicate-profile")?.form}</FormError>
-          {failedSave?.errors.form && failedSave.startedFrom !== profile.version ? (
+          {failedSave?.stale ? (
             <p className="text-sm text-ink-300">
               <Link to={base} reloadDocument className="text-glass-300 underline-offset-2 hover:underline">
                 Reload the profile
               </Link>{" "}
-              to see version {profile.version} (your entries above are not saved).
+              to see the saved version; what you entered below is not saved, so note it first.
             </p>
           ) : null}
         </div>
