@@ -5,11 +5,11 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startFakeMail, REFUSED_DOMAIN, type FakeMail } from "../../scripts/fakes/mail.ts";
 import { makeTeam, makeUser } from "../../tests/factories.ts";
 import { testDb } from "../../tests/support/db.ts";
+import { refusalOf } from "../../tests/support/refusal.ts";
 import { invitations } from "../db/schema.ts";
 import { changeRoleAndTell, inviteByEmail, removeMemberAndTell, resendInvitationMail, type Send } from "../mail/team.server.ts";
 import { createMailer } from "../mail.server.ts";
 import { listActivity } from "./activity.server.ts";
-import { DomainError } from "./errors.ts";
 import {
   acceptInvitation,
   findInvitationByToken,
@@ -63,15 +63,6 @@ function tokenMailedTo(to: string): string {
   return link!.slice(`${APP}/invitations/`.length).trim();
 }
 
-const refusal = async (work: Promise<unknown>) => {
-  const error = await work.then(
-    () => null,
-    (e: unknown) => e,
-  );
-  expect(error).toBeInstanceOf(DomainError);
-  return error as DomainError;
-};
-
 describe("inviting by e-mail", () => {
   it("mails a single-use link that lets the person who signs in join with the role; only the token's hash is stored", async () => {
     const { owner, team, context } = await setup();
@@ -104,7 +95,7 @@ describe("inviting by e-mail", () => {
 
     // Used once: a second person gets "already used", and the page can say so.
     const late = await makeUser(db);
-    const second = (await refusal(acceptInvitation(db, { token, userId: late.id }))) as InvitationUnusable;
+    const second = (await refusalOf(acceptInvitation(db, { token, userId: late.id }))) as InvitationUnusable;
     expect(second.reason).toBe("accepted");
     expect(await getRole(db, team.id, late.id)).toBeNull();
     expect(await findInvitationByToken(db, token)).toMatchObject({ status: "accepted", acceptedById: joiner.id });
@@ -135,7 +126,7 @@ describe("inviting by e-mail", () => {
       .update(invitations)
       .set({ expiresAt: new Date(Date.now() - 1000) })
       .where(eq(invitations.id, expired.issued.invitation.id));
-    expect(((await refusal(acceptInvitation(db, { token: expired.issued.token, userId: person.id }))) as InvitationUnusable).reason).toBe(
+    expect(((await refusalOf(acceptInvitation(db, { token: expired.issued.token, userId: person.id }))) as InvitationUnusable).reason).toBe(
       "expired",
     );
     expect((await findInvitationByToken(db, expired.issued.token))?.status).toBe("expired");
@@ -143,12 +134,12 @@ describe("inviting by e-mail", () => {
 
     const revoked = await inviteByEmail(db, context, { email: address(), role: "viewer" }, send);
     await revokeInvitation(db, { teamId: team.id, invitationId: revoked.issued.invitation.id, actorId: owner.id });
-    expect(((await refusal(acceptInvitation(db, { token: revoked.issued.token, userId: person.id }))) as InvitationUnusable).reason).toBe(
+    expect(((await refusalOf(acceptInvitation(db, { token: revoked.issued.token, userId: person.id }))) as InvitationUnusable).reason).toBe(
       "revoked",
     );
 
     for (const token of ["x".repeat(43), "short", "../../etc/passwd", ""]) {
-      expect(((await refusal(acceptInvitation(db, { token, userId: person.id }))) as InvitationUnusable).reason).toBe("unknown");
+      expect(((await refusalOf(acceptInvitation(db, { token, userId: person.id }))) as InvitationUnusable).reason).toBe("unknown");
       expect(await findInvitationByToken(db, token)).toBeNull();
     }
     expect(await getRole(db, team.id, person.id)).toBeNull();
@@ -182,7 +173,7 @@ describe("inviting by e-mail", () => {
     expect(second.issued.invitation.role).toBe("owner");
     expect(await findInvitationByToken(db, first.issued.token)).toBeNull();
 
-    const error = await refusal(inviteByEmail(db, context, { email: owner.email!.toUpperCase(), role: "editor" }, send));
+    const error = await refusalOf(inviteByEmail(db, context, { email: owner.email!.toUpperCase(), role: "editor" }, send));
     expect(error).toMatchObject({ field: "email", status: 409 });
     expect(await listOpenInvitations(db, team.id)).toHaveLength(1);
   });
@@ -211,7 +202,7 @@ describe("inviting by e-mail", () => {
   it("leaves the link unused when someone already in the team follows it", async () => {
     const { owner, team, context } = await setup();
     const { issued } = await inviteByEmail(db, context, { email: address(), role: "editor" }, send);
-    const error = (await refusal(acceptInvitation(db, { token: issued.token, userId: owner.id }))) as InvitationUnusable;
+    const error = (await refusalOf(acceptInvitation(db, { token: issued.token, userId: owner.id }))) as InvitationUnusable;
     expect(error.reason).toBe("member");
     expect(await getRole(db, team.id, owner.id)).toBe("owner");
     expect((await findInvitationByToken(db, issued.token))?.status).toBe("pending");
@@ -221,9 +212,9 @@ describe("inviting by e-mail", () => {
     const { owner, context } = await setup();
     const other = await setup();
     const { issued } = await inviteByEmail(db, context, { email: address(), role: "editor" }, send);
-    expect((await refusal(resendInvitationMail(db, other.context, issued.invitation.id, send))).status).toBe(404);
+    expect((await refusalOf(resendInvitationMail(db, other.context, issued.invitation.id, send))).status).toBe(404);
     await revokeInvitation(db, { teamId: context.team.id, invitationId: issued.invitation.id, actorId: owner.id });
-    expect((await refusal(resendInvitationMail(db, context, issued.invitation.id, send))).message).toMatch(/was revoked; invite again/);
+    expect((await refusalOf(resendInvitationMail(db, context, issued.invitation.id, send))).message).toMatch(/was revoked; invite again/);
   });
 });
 

@@ -4,12 +4,13 @@ import fc from "fast-check";
 import { afterAll, describe, expect, it } from "vitest";
 import { makeEffect, makeProject, makeTargetProfile, makeTeam, makeUser } from "../../tests/factories.ts";
 import { testDb } from "../../tests/support/db.ts";
+import { refusalOf } from "../../tests/support/refusal.ts";
 import { effects, targetProfiles, type TargetProfile } from "../db/schema.ts";
 import { exportDefaultsForProfile, profileLabel } from "../exports/defaults.ts";
 import { STARTER_PROFILES } from "../profiles/starters.ts";
 import { listActivity } from "./activity.server.ts";
 import { getEffect, saveEffectDocument } from "./effects.server.ts";
-import { DomainError } from "./errors.ts";
+import { type DomainError } from "./errors.ts";
 import {
   addStarterProfiles,
   checkProfileInput,
@@ -50,15 +51,6 @@ function edited(profile: TargetProfile, changes: Partial<TargetProfile>) {
   return settings;
 }
 
-const rejection = async (work: Promise<unknown>) => {
-  const error = await work.then(
-    () => null,
-    (e: unknown) => e,
-  );
-  expect(error).toBeInstanceOf(DomainError);
-  return error as DomainError;
-};
-
 describe("checkProfileInput", () => {
   const base = {
     name: "Handheld",
@@ -73,17 +65,15 @@ describe("checkProfileInput", () => {
   };
 
   it("lets core refuse settings that make no effect, naming the form field", async () => {
-    const error = await rejection(Promise.resolve().then(() => checkProfileInput({ ...base, columnGroup: 161 })));
+    const error = await refusalOf(() => checkProfileInput({ ...base, columnGroup: 161 }));
     expect(error.field).toBe("columnGroup");
     expect(error.message).toBe("Column group: 161 is not allowed; allowed a whole number from 1 to 160 (the canvas width)");
   });
 
   it("checks the label prefix with core's label rule and the dialects against core's outputs", async () => {
-    expect((await rejection(Promise.resolve().then(() => checkProfileInput({ ...base, labelPrefix: "int" })))).field).toBe("labelPrefix");
-    expect((await rejection(Promise.resolve().then(() => checkProfileInput({ ...base, labelPrefix: "gb_" })))).message).toMatch(
-      /ends in "_"/,
-    );
-    expect((await rejection(Promise.resolve().then(() => checkProfileInput({ ...base, dialects: ["ca65"] })))).field).toBe("dialects");
+    expect((await refusalOf(() => checkProfileInput({ ...base, labelPrefix: "int" }))).field).toBe("labelPrefix");
+    expect((await refusalOf(() => checkProfileInput({ ...base, labelPrefix: "gb_" }))).message).toMatch(/ends in "_"/);
+    expect((await refusalOf(() => checkProfileInput({ ...base, dialects: ["ca65"] }))).field).toBe("dialects");
     expect(checkProfileInput({ ...base, dialects: ["bin", "z80", "z80"], labelPrefix: "gb" })).toMatchObject({
       dialects: ["z80", "bin"],
       labelPrefix: "gb",
@@ -93,9 +83,9 @@ describe("checkProfileInput", () => {
   it("keeps only export options that differ from core's defaults, and refuses ones core refuses", async () => {
     const settings = checkProfileInput({ ...base, exportOptions: { sign: "shift", split: true, registerBits: null, element: "auto" } });
     expect(settings.exportOptions).toEqual({ split: true });
-    const error = await rejection(Promise.resolve().then(() => checkProfileInput({ ...base, exportOptions: { registerBits: 33 } })));
+    const error = await refusalOf(() => checkProfileInput({ ...base, exportOptions: { registerBits: 33 } }));
     expect(error.field).toBe("registerBits");
-    const unknown = await rejection(Promise.resolve().then(() => checkProfileInput({ ...base, exportOptions: { label: "x" } })));
+    const unknown = await refusalOf(() => checkProfileInput({ ...base, exportOptions: { label: "x" } }));
     expect(unknown.message).toMatch(/Unknown export option label/);
   });
 
@@ -118,7 +108,7 @@ describe("updateTargetProfile", () => {
       expectedVersion: 1,
       actorId: owner.id,
     });
-    const error = await rejection(
+    const error = await refusalOf(
       updateTargetProfile(db, {
         ...edited(profile, { canvasWidth: 128 }),
         teamId: team.id,
@@ -220,7 +210,7 @@ describe("updateTargetProfile", () => {
       expectedVersion: 1,
       actorId: owner.id,
     });
-    const error = await rejection(
+    const error = await refusalOf(
       saveEffectDocument(db, {
         effectId: effect.id,
         document: { ...effect.document, angles: { list: [1, 2, 3] } },
@@ -269,7 +259,7 @@ describe("updateTargetProfile", () => {
   it("answers 404 for a profile of another team", async () => {
     const { owner, profile } = await setup();
     const other = await makeTeam(db, { owner });
-    const error = await rejection(
+    const error = await refusalOf(
       updateTargetProfile(db, { ...edited(profile, {}), teamId: other.id, profileId: profile.id, expectedVersion: 1, actorId: owner.id }),
     );
     expect(error.status).toBe(404);
@@ -292,7 +282,7 @@ describe("duplicateTargetProfile and deleteTargetProfile", () => {
     const { owner, team, project, profile } = await setup();
     const a = await makeEffect(db, { project, actor: owner, targetProfile: profile });
     const b = await makeEffect(db, { project, actor: owner, targetProfile: profile });
-    const wrong = await rejection(
+    const wrong = await refusalOf(
       deleteTargetProfile(db, { teamId: team.id, profileId: profile.id, expectedVersion: 1, expectedEffectCount: 1, actorId: owner.id }),
     );
     expect(wrong.message).toMatch(/^2 effects use this profile now, not the 1 you confirmed/);
@@ -347,7 +337,7 @@ describe("following and detaching", () => {
     const stranger = await makeUser(db);
     const otherProfile = await makeTargetProfile(db, { team: await makeTeam(db, { owner: stranger }) });
     const effect = await makeEffect(db, { project, actor: owner });
-    const error = await rejection(
+    const error = await refusalOf(
       followProfile(db, { effectId: effect.id, profileId: otherProfile.id, expectedVersion: 1, actorId: owner.id }),
     );
     expect(error.status).toBe(404);
@@ -363,7 +353,7 @@ describe("addStarterProfiles", () => {
     );
     expect(await addStarterProfiles(db, { teamId: team.id, keys, actorId: owner.id })).toEqual([]);
     for (const key of ["__proto__", "constructor", "toString"])
-      expect((await rejection(addStarterProfiles(db, { teamId: team.id, keys: [key], actorId: owner.id }))).field).toBe("starter");
+      expect((await refusalOf(addStarterProfiles(db, { teamId: team.id, keys: [key], actorId: owner.id }))).field).toBe("starter");
     const rows = await db.select().from(targetProfiles).where(eq(targetProfiles.teamId, team.id));
     expect(rows).toHaveLength(1 + STARTER_PROFILES.length);
   });

@@ -1,3 +1,4 @@
+import type { ProfileSettings } from "../effects/settings.ts";
 import type { ProfileFormValues } from "./form.ts";
 
 /** The settings a blank new profile starts from: a 256 × 224 screen, Q8.8 and core's defaults elsewhere. */
@@ -18,33 +19,20 @@ export const BLANK_PROFILE: ProfileFormValues = {
 };
 
 /** A stored profile (or starter settings) as the form's values. */
-export function profileValues(profile: {
-  name: string;
-  description: string;
-  canvasWidth: number;
-  canvasHeight: number;
-  fixedPointBits: number;
-  fixedPointFraction: number;
-  rounding: string;
-  halfTurn: string;
-  edges: string;
-  columnGroup: number;
-  dialects: readonly string[];
-  labelPrefix: string;
-  exportOptions: Record<string, unknown>;
-}): ProfileFormValues {
+export function profileValues(
+  profile: ProfileSettings & {
+    name: string;
+    description: string;
+    dialects: readonly string[];
+    labelPrefix: string;
+    exportOptions: Record<string, unknown>;
+  },
+): ProfileFormValues {
   const x = profile.exportOptions;
+  const { name, description, canvasWidth, canvasHeight, fixedPointBits, fixedPointFraction, rounding, halfTurn, edges, columnGroup } =
+    profile;
   return {
-    name: profile.name,
-    description: profile.description,
-    canvasWidth: profile.canvasWidth,
-    canvasHeight: profile.canvasHeight,
-    fixedPointBits: profile.fixedPointBits,
-    fixedPointFraction: profile.fixedPointFraction,
-    rounding: profile.rounding,
-    halfTurn: profile.halfTurn,
-    edges: profile.edges,
-    columnGroup: profile.columnGroup,
+    ...{ name, description, canvasWidth, canvasHeight, fixedPointBits, fixedPointFraction, rounding, halfTurn, edges, columnGroup },
     dialects: [...profile.dialects],
     labelPrefix: profile.labelPrefix,
     exportOptions: {

@@ -1,9 +1,8 @@
 import { data } from "react-router";
 import type { Route } from "./+types/team.members.remove";
 import { requireAtLeast } from "../actions.server.ts";
-import { ConfirmBody } from "../components/ConfirmDialog.tsx";
+import { ConfirmPage } from "../components/ConfirmDialog.tsx";
 import { RemoveMemberQuestion } from "../components/team/RemoveMemberQuestion.tsx";
-import { Crumbs } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
 import { requireTeamRole } from "../guards.server.ts";
 import { listMembers } from "../models/teams.server.ts";
@@ -27,30 +26,21 @@ export default function RemoveMember({ loaderData }: Route.ComponentProps) {
   const { team, member } = loaderData;
   const back = `/teams/${team.id}/members`;
   return (
-    <div className="mx-auto flex max-w-xl flex-col gap-4">
-      <Crumbs
-        items={[
-          { label: "Home", to: "/" },
-          { label: team.name, to: `/teams/${team.id}` },
-          { label: "Members", to: back },
-          { label: "Remove" },
-        ]}
-      />
-      <div className="rounded-lg border border-ink-700 bg-ink-900">
-        <ConfirmBody
-          heading="h1"
-          titleId="remove-title"
-          bodyId="remove-body"
-          title={`Remove ${member.name} from ${team.name}?`}
-          confirm={`Remove ${member.name}`}
-          intent="remove-member"
-          fields={{ userId: member.userId }}
-          action={back}
-          cancelTo={back}
-        >
-          <RemoveMemberQuestion name={member.name} email={member.email} role={member.role} teamName={team.name} />
-        </ConfirmBody>
-      </div>
-    </div>
+    <ConfirmPage
+      crumbs={[
+        { label: "Home", to: "/" },
+        { label: team.name, to: `/teams/${team.id}` },
+        { label: "Members", to: back },
+        { label: "Remove" },
+      ]}
+      back={back}
+      title={`Remove ${member.name} from ${team.name}?`}
+      confirm={`Remove ${member.name}`}
+      intent="remove-member"
+      fields={{ userId: member.userId }}
+      action={back}
+    >
+      <RemoveMemberQuestion name={member.name} email={member.email} role={member.role} teamName={team.name} />
+    </ConfirmPage>
   );
 }

@@ -1,8 +1,7 @@
 import type { Route } from "./+types/team.profile.delete";
 import { requireAtLeast } from "../actions.server.ts";
-import { ConfirmBody } from "../components/ConfirmDialog.tsx";
+import { ConfirmPage } from "../components/ConfirmDialog.tsx";
 import { DeleteProfileQuestion } from "../components/profiles/DeleteProfileQuestion.tsx";
-import { Crumbs } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
 import { countProfileUsers } from "../models/targetProfiles.server.ts";
 import { requireTeamProfile } from "../profiles/routes.server.ts";
@@ -24,31 +23,22 @@ export default function DeleteProfile({ loaderData }: Route.ComponentProps) {
   const { team, profile, users } = loaderData;
   const back = `/teams/${team.id}/profiles/${profile.id}`;
   return (
-    <div className="mx-auto flex max-w-xl flex-col gap-4">
-      <Crumbs
-        items={[
-          { label: "Home", to: "/" },
-          { label: team.name, to: `/teams/${team.id}` },
-          { label: "Target profiles", to: `/teams/${team.id}/profiles` },
-          { label: profile.name, to: back },
-          { label: "Delete" },
-        ]}
-      />
-      <div className="rounded-lg border border-ink-700 bg-ink-900">
-        <ConfirmBody
-          heading="h1"
-          titleId="delete-title"
-          bodyId="delete-body"
-          title={`Delete the target profile “${profile.name}”?`}
-          confirm={users > 0 ? `Delete and detach ${users} effect${users === 1 ? "" : "s"}` : "Delete profile"}
-          intent="delete-profile"
-          fields={{ version: profile.version, effectCount: users }}
-          action={back}
-          cancelTo={back}
-        >
-          <DeleteProfileQuestion name={profile.name} users={users} />
-        </ConfirmBody>
-      </div>
-    </div>
+    <ConfirmPage
+      crumbs={[
+        { label: "Home", to: "/" },
+        { label: team.name, to: `/teams/${team.id}` },
+        { label: "Target profiles", to: `/teams/${team.id}/profiles` },
+        { label: profile.name, to: back },
+        { label: "Delete" },
+      ]}
+      back={back}
+      title={`Delete the target profile “${profile.name}”?`}
+      confirm={users > 0 ? `Delete and detach ${users} effect${users === 1 ? "" : "s"}` : "Delete profile"}
+      intent="delete-profile"
+      fields={{ version: profile.version, effectCount: users }}
+      action={back}
+    >
+      <DeleteProfileQuestion name={profile.name} users={users} />
+    </ConfirmPage>
   );
 }

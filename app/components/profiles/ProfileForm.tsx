@@ -81,7 +81,7 @@ export function ProfileForm({
       {Object.entries(hidden).map(([name, value]) => (
         <input key={name} type="hidden" name={name} value={value} />
       ))}
-      <fieldset disabled={readOnly} className="flex flex-col gap-5 disabled:opacity-90">
+      <fieldset disabled={readOnly} className="flex flex-col gap-5 disabled:opacity-75">
         <Section title="Name">
           <div className="grid gap-3 md:grid-cols-[2fr_3fr]">
             <Field label="Profile name" name="profile-name" error={e.name}>
