@@ -15,14 +15,21 @@ import {
 import type { ProfileExportSettings } from "../profiles/apply.ts";
 
 /**
- * The label of an effect under a profile's label prefix: `prefix_ownlabel`, cut to the longest label core allows
- * (LABEL_MAX_LENGTH) so that effects of one profile keep distinct symbols; the effect's own label (core's
- * labelFromName) when there is no prefix, and the prefix alone if the joined label is not one core accepts.
+ * The label of an effect under a profile's label prefix: `prefix_ownlabel`, so that effects of one profile keep
+ * distinct symbols. Longer than core allows (LABEL_MAX_LENGTH), it loses whole words from the end (a word cut in
+ * two only when no whole word fits). The effect's own label (core's labelFromName) when there is no prefix, and the
+ * prefix alone if the joined label is not one core accepts.
  */
 export function profileLabel(prefix: string, effectName: string): string {
   const own = labelFromName(effectName);
   if (!prefix) return own;
-  const joined = `${prefix}_${own}`.slice(0, LABEL_MAX_LENGTH).replace(/_+$/, "");
+  let joined = `${prefix}_${own}`;
+  if (joined.length > LABEL_MAX_LENGTH) {
+    const cut = joined.slice(0, LABEL_MAX_LENGTH);
+    const wordEnd = joined[LABEL_MAX_LENGTH] === "_" ? LABEL_MAX_LENGTH : cut.lastIndexOf("_");
+    joined = wordEnd > prefix.length ? cut.slice(0, wordEnd) : cut;
+  }
+  joined = joined.replace(/_+$/, "");
   try {
     return checkLabel(joined);
   } catch {
