@@ -292,7 +292,7 @@ export class InvitationUnusable extends DomainError {
 /**
  * Accepts an invitation for the signed-in person: they join the team with the invitation's role and the link is
  * used up. The invitation row is locked, so of two people using one link at the same moment only one gets in.
- * The person's own e-mail address need not be the invited one (see docs/decisions/0006-invitation-goes-to-whoever-accepts.md).
+ * The person's own e-mail address need not be the invited one (see docs/decisions/0007-invitation-goes-to-whoever-accepts.md).
  * Someone who is already a member is refused and the link stays usable.
  */
 export async function acceptInvitation(db: Tx, input: { token: string; userId: string }): Promise<{ teamId: string; role: Role }> {
