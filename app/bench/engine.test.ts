@@ -2,7 +2,7 @@ import { canvasFit, compileShifts, frameDiagnostics, parseEffect, renderImage, t
 import { describe, expect, it } from "vitest";
 import { compassRose } from "../demo/art.ts";
 import { FramePainter, outline, prepareSource, TrackDiagnosis } from "./engine.ts";
-import { profileExportDefaults } from "../exports.server.ts";
+import { exportDefaultsForProfile } from "../exports/defaults.ts";
 import { exportChoiceFrom, exportInput, exportZipHref } from "./exportChoice.ts";
 import { growToFit } from "./fit.ts";
 
@@ -121,16 +121,16 @@ describe("growing the canvas to fit", () => {
 describe("export choices", () => {
   it("takes the profile's dialects and label prefix, and builds the zip's address from the same options", () => {
     const choice = exportChoiceFrom(
-      profileExportDefaults({ dialects: ["ca65"], labelPrefix: "rose_", exportOptions: {} }),
+      exportDefaultsForProfile({ dialects: ["6502"], labelPrefix: "rose", exportOptions: { sign: "scroll" } }, "Compass rose emblem"),
       "Compass rose emblem",
     );
-    expect(choice).toMatchObject({ outputs: ["6502"], label: "rose", sign: "shift", element: "auto" });
-    expect(exportChoiceFrom(profileExportDefaults(null), "Storm background tilt")).toMatchObject({
+    expect(choice).toMatchObject({ outputs: ["6502"], label: "rose_compass_rose", sign: "scroll", element: "auto" });
+    expect(exportChoiceFrom(exportDefaultsForProfile(null, "Storm background tilt"), "Storm background tilt")).toMatchObject({
       label: "storm_background_tilt",
       outputs: ["c", "6502", "68k", "arm", "z80", "bin", "json", "runtime"],
     });
     expect(exportZipHref("e1", { ...choice, registerBits: "9", dedupe: true })).toBe(
-      "/effects/e1/export.zip?outputs=6502&label=rose&sign=shift&registerBits=9&element=auto&split=false&half=false&dedupe=true",
+      "/effects/e1/export.zip?outputs=6502&label=rose_compass_rose&sign=scroll&registerBits=9&element=auto&split=false&half=false&dedupe=true",
     );
   });
 

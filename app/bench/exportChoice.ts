@@ -28,21 +28,9 @@ export interface ExportChoice {
   dedupe: boolean;
 }
 
-/** What each output makes, in plain words. */
-export const OUTPUT_LABELS: Record<ExportOutput, string> = {
-  c: "C99 header and source",
-  "6502": "6502 / 65816 assembler (ca65)",
-  "68k": "68000 assembler (GNU as)",
-  arm: "ARM assembler (GNU as)",
-  z80: "Z80 / SM83 assembler",
-  bin: "Raw binary tables (little- and big-endian)",
-  json: "Tables document (JSON)",
-  runtime: "Run-time routine in C",
-};
-
 /**
- * The panel's choices for export defaults (the server's profileExportDefaults: the profile's dialects, label prefix and
- * stored options), resolved by core; the label falls back to one made from the effect's name.
+ * The panel's choices for export defaults (app/exports/defaults.ts: the profile's dialects, label prefix and stored
+ * options), resolved by core; the label falls back to one made from the effect's name.
  */
 export function exportChoiceFrom(defaults: ExportOptionsInput, effectName: string): ExportChoice {
   const resolved = resolveExportOptions({ ...defaults, name: effectName, label: defaults.label ?? labelFromName(effectName) });
@@ -100,3 +88,4 @@ export function exportZipHref(effectId: string, choice: ExportChoice): string {
 }
 
 export { ELEMENT_CHOICES, EXPORT_OUTPUTS, SIGNS };
+export { OUTPUT_LABELS } from "../profiles/form.ts";

@@ -1,4 +1,5 @@
-import { checkEffect, type Effect } from "@skewsmith/core";
+import { checkEffect, EffectError, type Effect } from "@skewsmith/core";
+import { applyProfileToDocument } from "../profiles/apply.ts";
 import { and, asc, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
 import { effects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
@@ -340,18 +341,6 @@ export interface BenchSaveInput {
 /** The bench's save: done (with the parts that changed), or refused because someone saved first (with their row). */
 export type BenchSaveResult = { ok: true; effect: EffectRow; changed: string[] } | { ok: false; current: EffectRow };
 
-/** The target settings a profile fixes, as they sit in an effect document. */
-function profileDocumentSettings(profile: typeof targetProfiles.$inferSelect) {
-  return {
-    canvas: { width: profile.canvasWidth, height: profile.canvasHeight },
-    fixedPoint: { bits: profile.fixedPointBits, fraction: profile.fixedPointFraction },
-    rounding: profile.rounding,
-    halfTurn: profile.halfTurn,
-    edges: profile.edges,
-    columnGroup: profile.columnGroup,
-  };
-}
-
 /** The parts of an effect a save changes, in words, for the activity list. */
 function benchChanges(
   before: EffectRow,
@@ -391,17 +380,27 @@ export async function saveEffectBench(db: Tx, input: BenchSaveInput): Promise<Be
   return db.transaction(async (tx) => {
     const { effect, project } = await changeableEffect(tx, input.effectId);
     if (effect.version !== input.expectedVersion) return { ok: false, current: effect };
-    let document = input.document;
+    let valid = validDocument(input.document);
     if (input.targetProfileId) {
       const [profile] = await tx
         .select()
         .from(targetProfiles)
         .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)));
       if (!profile) throw new DomainError("That target profile does not belong to this team.", { field: "targetProfileId" });
-      if (input.followsProfile && document && typeof document === "object")
-        document = { ...(document as Record<string, unknown>), ...profileDocumentSettings(profile) };
+      if (input.followsProfile) {
+        try {
+          valid = applyProfileToDocument(valid, profile).document;
+        } catch (error) {
+          if (!(error instanceof EffectError)) throw error;
+          throw new DomainError(
+            `The profile's settings do not fit this effect: ${error.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`,
+            {
+              field: "targetProfileId",
+            },
+          );
+        }
+      }
     }
-    const valid = validDocument(document);
     let bounds = valid.canvas;
     if (input.spriteId) {
       const [sprite] = await tx

@@ -3,7 +3,7 @@ import type { Route } from "./+types/effect";
 import { invalid, unknownIntent } from "../actions.server.ts";
 import { stateToDraft, type BenchDraft } from "../bench/draft.ts";
 import { exportChoiceFrom } from "../bench/exportChoice.ts";
-import { profileExportDefaults } from "../exports.server.ts";
+import { exportDefaultsForProfile } from "../exports/defaults.ts";
 import { benchErrors, benchForm, saveForm } from "../bench/form.ts";
 import { benchState, savedDiagnostics } from "../bench/saved.server.ts";
 import { viewFromSearch } from "../bench/view.ts";
@@ -63,7 +63,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     })),
     sprites,
     diagnostics,
-    exportDefaults: exportChoiceFrom(profileExportDefaults(profile), effect.name),
+    exportDefaults: exportChoiceFrom(exportDefaultsForProfile(profile, effect.name), effect.name),
     view: viewFromSearch(new URL(request.url).searchParams, frames, saved.document.canvas),
   };
 }
