@@ -1,5 +1,7 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { compileFrame, compileShifts, compileTables, parseEffect } from "../src/index.ts";
+import { ROUNDINGS, compileFrame, compileShifts, compileTables, parseEffect, type Bits } from "../src/index.ts";
+import { turningAngle } from "./helpers/arbitraries.ts";
 import { refTables } from "./helpers/reference.ts";
 
 const effect = (doc: Record<string, unknown>) => parseEffect(doc);
@@ -87,5 +89,42 @@ describe("compileTables (spec §2–§4, §8)", () => {
     const none = compileTables(e, { mask }).frames[0];
     expect(whole.wrapped).toBeGreaterThan(0);
     expect([none.wrapped, none.maxErrorPx, none.meanErrorPx]).toEqual([0, 0, 0]);
+  });
+});
+
+describe("compileShifts, with its tables shared between frames, equals the BigInt reference on every frame", () => {
+  it("for tracks of turning angles, few fraction bits (many exact halves), every rounding rule, pivot and column group", () => {
+    fc.assert(
+      fc.property(
+        fc.record({
+          W: fc.integer({ min: 1, max: 24 }),
+          H: fc.integer({ min: 1, max: 24 }),
+          px: fc.nat(),
+          py: fc.nat(),
+          g: fc.nat(),
+          F: fc.integer({ min: 0, max: 5 }),
+          bits: fc.constantFrom<Bits>(8, 16),
+          rounding: fc.constantFrom(...ROUNDINGS),
+          angles: fc.array(turningAngle, { minLength: 1, maxLength: 12 }),
+        }),
+        ({ W, H, px, py, g, F, bits, rounding, angles }) => {
+          const e = parseEffect({
+            canvas: { width: W, height: H },
+            pivot: { x: (px % (2 * W + 1)) / 2, y: (py % (2 * H + 1)) / 2 },
+            // Repeat the track so that frames share tables.
+            angles: { list: [...angles, ...angles] },
+            fixedPoint: { bits, fraction: F },
+            rounding,
+            columnGroup: (g % W) + 1,
+          });
+          for (const f of compileShifts(e).frames) {
+            const ref = refTables(f.alpha, f.beta, W, H, e.pivot, F, rounding, e.columnGroup);
+            expect(Array.from(f.h), `frame ${f.index} h`).toEqual(ref.h);
+            expect(Array.from(f.v), `frame ${f.index} v`).toEqual(ref.v);
+          }
+        },
+      ),
+      { numRuns: 200 },
+    );
   });
 });
