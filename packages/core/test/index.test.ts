@@ -40,6 +40,7 @@ const CORE_VALUES = [
   "placeImage",
   "decodePng",
   "encodePng",
+  "pngHeader",
   "PngError",
   "canvasFit",
 ];
@@ -109,6 +110,7 @@ const CORE_TYPES = [
   "IndexedImage",
   "RgbaImage",
   "Rgba",
+  "PngHeader",
   "CanvasFit",
   "CanvasFitOptions",
   "Sides",
