@@ -48,6 +48,7 @@ const CORE_VALUES = [
 const EXPORTER_VALUES = [
   "exportBundle",
   "EXPORT_MAX_BYTES",
+  "FFLATE_CODEC",
   "resolveExportOptions",
   "EXPORT_OUTPUTS",
   "EXPORT_DEFAULTS",
@@ -119,6 +120,7 @@ const CORE_TYPES = [
 const EXPORTER_TYPES = [
   "ExportBundle",
   "BundleFile",
+  "ZipCodec",
   "ExportOptions",
   "ExportOptionsInput",
   "ExportOutput",

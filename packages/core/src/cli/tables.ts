@@ -18,14 +18,15 @@ options:
   async run(args, io) {
     const { positionals, values } = parseCommandArgs(args, { pretty: { type: "boolean" } });
     // The work is loaded when a command runs, so that --help and --version start at once.
-    const [{ readEffectFile }, { compileTables }, { tablesDocument }] = await Promise.all([
+    const [{ readEffectFile }, { compileTables }, { tablesDocument }, { tablesDocumentText }] = await Promise.all([
       import("./readEffectFile.ts"),
       import("../compileTables.ts"),
       import("../tablesDocument.ts"),
+      import("../tablesDocumentText.ts"),
     ]);
     const effect = await readEffectFile(positionals[0], io);
-    const doc = tablesDocument(compileTables(effect));
-    io.stdout(`${JSON.stringify(doc, null, values.pretty ? 2 : undefined)}\n`);
+    const tables = compileTables(effect);
+    io.stdout(`${values.pretty ? JSON.stringify(tablesDocument(tables), null, 2) : tablesDocumentText(tables)}\n`);
     return 0;
   },
 };

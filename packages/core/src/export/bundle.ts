@@ -1,4 +1,3 @@
-import { zipSync } from "fflate";
 import { compileShifts, compileTables } from "../compileTables.ts";
 import type { Effect } from "../effect.ts";
 import { armSource } from "./arm.ts";
@@ -15,6 +14,7 @@ import { resolveExportOptions, type ExportOptions, type ExportOptionsInput } fro
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Source } from "./z80.ts";
+import { FFLATE_CODEC, zipArchive, type ZipCodec } from "./zip.ts";
 
 /** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
 export interface BundleFile {
@@ -28,7 +28,10 @@ export interface ExportBundle {
   readonly label: string;
   readonly options: ExportOptions;
   readonly files: readonly BundleFile[];
-  /** A zip of every file (deflate), with a fixed date so the same effect and options give the same bytes. */
+  /**
+   * A zip of every file (deflate), with a fixed date so the same effect, options and codec give the same bytes; made
+   * when first read, so a caller that only writes the files never pays for it.
+   */
   readonly zip: Uint8Array;
   readonly budget: BudgetReport;
 }
@@ -82,9 +85,9 @@ export function outputTexts(layout: ExportLayout, json: () => string): BundleFil
  * Makes the export bundle of a validated effect: README.txt, the chosen outputs (C, four assembler dialects, raw
  * binaries, tables document, run-time routine) and the effect document, as files and as one zip. `options.name` is the
  * effect's name (default label and headers). Throws ExportOptionError for a bad or inapplicable option, RangeError when
- * the tables exceed EXPORT_MAX_BYTES.
+ * the tables exceed EXPORT_MAX_BYTES. `codec` compresses the zip (fflate by default; the command line passes Node's zlib).
  */
-export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): ExportBundle {
+export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, codec: ZipCodec = FFLATE_CODEC): ExportBundle {
   const resolved = resolveExportOptions(options);
   const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
   const tables = full ?? compileShifts(effect);
@@ -105,6 +108,14 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): 
     ...outputs,
     { name: effectFileName(layout.label), text: effectText, bytes: enc.encode(effectText) },
   ];
-  const zip = zipSync(Object.fromEntries(files.map((f) => [f.name, [f.bytes, { mtime: ZIP_DATE }]])), { level: 6, mtime: ZIP_DATE });
-  return { label: layout.label, options: resolved, files, zip, budget };
+  let zip: Uint8Array | undefined;
+  return {
+    label: layout.label,
+    options: resolved,
+    files,
+    get zip() {
+      return (zip ??= zipArchive(files, codec, ZIP_DATE));
+    },
+    budget,
+  };
 }

@@ -58,26 +58,27 @@ export function cHeader(layout: ExportLayout): string {
 
 function initializer(layout: ExportLayout, t: LayoutTable): string[] {
   const per = PER_LINE[t.type.bytes];
-  const row = (start: number, end: number, indent: string) => {
+  const row = (values: readonly number[], indent: string) => {
     const out: string[] = [];
-    for (let i = start; i < end; i += per) {
-      const last = Math.min(i + per, end);
-      const ops = t.values.slice(i, last).map((v) => cLiteral(v, t.type));
-      out.push(`${indent}${ops.join(", ")}${last < end ? "," : ""}`);
+    for (let i = 0; i < values.length; i += per) {
+      const last = Math.min(i + per, values.length);
+      const ops = values.slice(i, last).map((v) => cLiteral(v, t.type));
+      out.push(`${indent}${ops.join(", ")}${last < values.length ? "," : ""}`);
     }
-    return out;
+    return out.join("\n");
   };
-  if (t.dims.length === 1) return row(0, t.values.length, "    ");
+  if (t.rows === null) return [row(t.values, "    ")];
+  // Each distinct row is formatted once; frames sharing a row share its text.
+  const blocks = new Map<readonly number[], string>();
   const out: string[] = [];
-  const n = t.dims[1];
-  for (let start = 0, u = 0; start < t.values.length; start += n, u++) {
-    out.push(
-      `    /* ${layout.frameNotes[u]} */`,
-      "    {",
-      ...row(start, start + n, "        "),
-      `    }${start + n < t.values.length ? "," : ""}`,
-    );
-  }
+  t.rows.forEach((values, u) => {
+    let text = blocks.get(values);
+    if (text === undefined) {
+      text = row(values, "        ");
+      blocks.set(values, text);
+    }
+    out.push(`    /* ${layout.frameNotes[u]} */`, "    {", text, `    }${u + 1 < t.rows!.length ? "," : ""}`);
+  });
   return out;
 }
 

@@ -59,6 +59,7 @@ describe("skewsmith export", () => {
       "--dedupe",
     );
     expect(r.code).toBe(0);
+    run("unzip", ["-tq", zip], dir, false); // every entry's CRC checks out
     const names = run("unzip", ["-Z1", zip], dir).trim().split("\n").sort();
     expect(names).toEqual(["README.txt", "storm.6502.s", "storm.be.bin", "storm.effect.json", "storm.le.bin", "storm.z80.s"]);
     const z80 = run("unzip", ["-p", zip, "storm.z80.s"], dir);
