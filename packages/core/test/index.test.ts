@@ -48,7 +48,6 @@ const CORE_VALUES = [
 const EXPORTER_VALUES = [
   "exportBundle",
   "EXPORT_MAX_BYTES",
-  "FFLATE_CODEC",
   "resolveExportOptions",
   "EXPORT_OUTPUTS",
   "EXPORT_DEFAULTS",

@@ -1,3 +1,4 @@
+import { zipSync } from "fflate";
 import { compileShifts, compileTables } from "../compileTables.ts";
 import type { Effect } from "../effect.ts";
 import { armSource } from "./arm.ts";
@@ -14,7 +15,7 @@ import { resolveExportOptions, type ExportOptions, type ExportOptionsInput } fro
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Source } from "./z80.ts";
-import { FFLATE_CODEC, zipArchive, type ZipCodec } from "./zip.ts";
+import { zipArchive, type ZipCodec } from "./zip.ts";
 
 /** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
 export interface BundleFile {
@@ -41,6 +42,14 @@ export const EXPORT_MAX_BYTES = 32 * 1024 * 1024;
 
 /** Date stamped on every zip entry: the first day a zip (DOS) date can hold, so bundles are reproducible. */
 const ZIP_DATE = new Date(1980, 0, 1, 0, 0, 0);
+
+/**
+ * Deflate level of the zip when no codec is given (fflate in JavaScript, which runs in the app's server and the
+ * browser): 6, the zlib default and the level bundles have always had, so those zips keep their bytes. They are
+ * downloaded, and text tables shrink to about a third of what level 1 leaves for about 1.3 times its time (measured on a
+ * 4096-frame 320 × 240 bundle: 2.8 MB in 1.1 s against 7.6 MB in 0.8 s).
+ */
+const ZIP_LEVEL = 6;
 
 /** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted). */
 export function outputTexts(layout: ExportLayout, json: () => string): BundleFile[] {
@@ -85,9 +94,9 @@ export function outputTexts(layout: ExportLayout, json: () => string): BundleFil
  * Makes the export bundle of a validated effect: README.txt, the chosen outputs (C, four assembler dialects, raw
  * binaries, tables document, run-time routine) and the effect document, as files and as one zip. `options.name` is the
  * effect's name (default label and headers). Throws ExportOptionError for a bad or inapplicable option, RangeError when
- * the tables exceed EXPORT_MAX_BYTES. `codec` compresses the zip (fflate by default; the command line passes Node's zlib).
+ * the tables exceed EXPORT_MAX_BYTES. `codec` compresses the zip instead of fflate (the command line passes Node's zlib).
  */
-export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, codec: ZipCodec = FFLATE_CODEC): ExportBundle {
+export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, codec?: ZipCodec): ExportBundle {
   const resolved = resolveExportOptions(options);
   const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
   const tables = full ?? compileShifts(effect);
@@ -114,7 +123,10 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, c
     options: resolved,
     files,
     get zip() {
-      return (zip ??= zipArchive(files, codec, ZIP_DATE));
+      zip ??= codec
+        ? zipArchive(files, codec, ZIP_DATE)
+        : zipSync(Object.fromEntries(files.map((f) => [f.name, [f.bytes, { mtime: ZIP_DATE }]])), { level: ZIP_LEVEL, mtime: ZIP_DATE });
+      return zip;
     },
     budget,
   };

@@ -78,7 +78,9 @@ export function runtimeSource(layout: ExportLayout): string {
           "(whole tables, also when the export stores half tables or low/high bytes).",
       ),
       ...wrapWords(`Call ${fn}(alpha, beta, h, v) with room for ${H} elements in h and ${W} in v, of type ${E}.`),
-      `Accumulator: ${wide ? "int64_t (this format's products need more than 31 bits; cc65 has no 64-bit type, so on the 6502 keep the tables instead)" : "int32_t"}.`,
+      ...wrapWords(
+        `Accumulator: ${wide ? "int64_t (this format's products need more than 31 bits; cc65 has no 64-bit type, so on the 6502 keep the tables instead)" : "int32_t"}.`,
+      ),
     ]),
     "#include <stdint.h>",
     "",

@@ -1,24 +1,10 @@
-import { Zip, deflateSync, type ZipInputFile } from "fflate";
-import { crc32 } from "../crc32.ts";
+import { Zip, type ZipInputFile } from "fflate";
 
 /** How a zip's entries are compressed: raw deflate (RFC 1951) and the CRC-32 of the uncompressed bytes. */
 export interface ZipCodec {
   readonly deflateRaw: (bytes: Uint8Array) => Uint8Array;
   readonly crc32: (bytes: Uint8Array) => number;
 }
-
-/**
- * Deflate level of bundles zipped with fflate, the codec that runs everywhere (the app's server and the browser): 6,
- * the zlib default. Bundles are downloaded, and text tables shrink to about a third of what level 1 leaves for about
- * 1.3 times its time (measured on a 4096-frame 320 × 240 bundle: 2.8 MB in 1.1 s against 7.6 MB in 0.8 s).
- */
-const FFLATE_LEVEL = 6;
-
-/** Compresses with fflate in JavaScript (no platform dependency). */
-export const FFLATE_CODEC: ZipCodec = {
-  deflateRaw: (bytes) => deflateSync(bytes, { level: FFLATE_LEVEL }),
-  crc32: (bytes) => crc32(bytes),
-};
 
 /**
  * A zip archive of the files, in order, each deflated by `codec`, dated `mtime`; the container is fflate's (local headers
