@@ -295,7 +295,7 @@ int main(void)
       const runtime = readFileSync(file(`${L}_runtime.c`), "utf8");
       // cc65 has no 64-bit integer type: a format whose products need one keeps its tables on the 6502 (the file says so).
       const needs64 = runtime.includes("typedef int64_t");
-      if (needs64) expect(runtime).toContain("cc65 has no 64-bit type");
+      if (needs64) expect(runtime.replace(/\n \* /g, " ")).toContain("cc65 has no 64-bit type");
       for (const [tool, flags] of compilers) {
         const tag = `${tool}${flags[0]}`.replace(/[^\w]/g, "_");
         run(tool, [...flags, "-o", `${tag}.tables.o`, `${L}.c`], dir);
