@@ -11,6 +11,8 @@ export default [
   route("projects/:projectId", "routes/project.tsx"),
   route("effects/:effectId", "routes/effect.tsx"),
   route("effects/:effectId/document.json", "routes/effect.document.ts"),
+  route("effects/:effectId/export.zip", "routes/effect.export.ts"),
+  route("projects/:projectId/export.zip", "routes/project.export.ts"),
   route("sprites/:spriteId/image.png", "routes/sprite.image.ts"),
   route("dev/mailbox", "routes/dev.mailbox.tsx"),
   route("healthz", "routes/healthz.ts"),
