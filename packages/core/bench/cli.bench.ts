@@ -22,6 +22,7 @@ import os from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { encode } from "fast-png";
+import { benchPicture, median, printTable } from "./harness.ts";
 
 const ROUNDS = Number(process.argv[2] ?? 7);
 const WARM_UP = 1;
@@ -47,22 +48,8 @@ writeFileSync(
   file("hd.json"),
   JSON.stringify({ canvas: { width: 1920, height: 1080 }, pivot: { x: 960, y: 540 }, angles: { list: [0, 30] } }),
 );
-// A 1920 × 1080 RGBA picture with gradients, edges and some noise (compresses about as a drawn frame does), written by
-// fast-png so that the reader under test did not write its own input.
-{
-  const W = 1920;
-  const H = 1080;
-  const rgba = new Uint8Array(W * H * 4);
-  let seed = 12345;
-  for (let i = 0; i < W * H; i++) {
-    seed = (seed * 1103515245 + 12345) >>> 0;
-    const x = i % W;
-    const y = (i / W) | 0;
-    const noise = (seed >>> 24) & 15;
-    rgba.set([(x >> 3) ^ noise, (y >> 2) + noise, ((x * y) >> 10) & 255, (x + y) % 97 < 3 ? 0 : 255], 4 * i);
-  }
-  writeFileSync(file("hd.png"), encode({ width: W, height: H, data: rgba, channels: 4, depth: 8 }));
-}
+// The 1920 × 1080 RGBA picture, written by fast-png so that the reader under test did not write its own input.
+writeFileSync(file("hd.png"), encode({ width: 1920, height: 1080, data: benchPicture(1920, 1080), channels: 4, depth: 8 }));
 
 interface Run {
   readonly ms: number;
@@ -78,12 +65,6 @@ function runOnce(args: readonly string[]): Run {
   if (r.status !== 0) throw new Error(`${args.join(" ")} failed (exit ${r.status}):\n${r.stderr.toString().slice(0, 2000)}`);
   return { ms, rssKb: Number(readFileSync(rssFile, "utf8").trim().split("\n").at(-1)) };
 }
-
-const median = (xs: readonly number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 interface Pair {
   readonly name: string;
@@ -165,10 +146,4 @@ console.log(
 );
 console.log("ratio: the case's wall time over its baseline's in the same round; range: the smallest and largest of those ratios.");
 console.log("");
-const header = ["case", "ms", "baseline", "ms", "ratio", "range", "target", "RSS MB", "base RSS MB"];
-const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-const line = (r: readonly string[]) =>
-  r.map((cell, i) => (i === 0 || i === 2 ? cell.padEnd(widths[i]) : cell.padStart(widths[i]))).join("  ");
-console.log(line(header));
-console.log(widths.map((w) => "-".repeat(w)).join("  "));
-for (const r of rows) console.log(line(r).trimEnd());
+printTable(["case", "ms", "baseline", "ms", "ratio", "range", "target", "RSS MB", "base RSS MB"], rows, [0, 2]);

@@ -14,52 +14,19 @@
  * Run: `npx tsx bench/png.bench.ts [rounds]` (default 9 rounds after 2 warm-up rounds).
  */
 import os from "node:os";
-import v8 from "node:v8";
-import vm from "node:vm";
 import { decode, encode } from "fast-png";
 import sharp from "sharp";
 import type { Image } from "../src/image.ts";
 import { decodePng, encodePng } from "../src/png.ts";
 import * as before from "./baseline/png.ts";
+import { benchPicture, measureInterleaved, printTable } from "./harness.ts";
 
 const W = 1920;
 const H = 1080;
 const ROUNDS = Number(process.argv[2] ?? 9);
 const WARM_UP = 2;
 
-v8.setFlagsFromString("--expose-gc");
-const collectGarbage = vm.runInNewContext("gc") as () => void;
-
-const median = (xs: readonly number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
-
-/** Runs every case once per round, rounds interleaved; returns each case's median in ms. */
-function measure(cases: readonly (() => unknown)[]): number[] {
-  const times = cases.map(() => [] as number[]);
-  for (let round = 0; round < WARM_UP + ROUNDS; round++)
-    cases.forEach((run, i) => {
-      collectGarbage();
-      const start = performance.now();
-      run();
-      const ms = performance.now() - start;
-      if (round >= WARM_UP) times[i].push(ms);
-    });
-  return times.map(median);
-}
-
-// A picture with gradients, edges and a little noise, so that it compresses about as a drawn frame does.
-const rgba = new Uint8Array(W * H * 4);
-let seed = 12345;
-for (let i = 0; i < W * H; i++) {
-  seed = (seed * 1103515245 + 12345) >>> 0;
-  const x = i % W;
-  const y = (i / W) | 0;
-  const noise = (seed >>> 24) & 15;
-  rgba.set([(x >> 3) ^ noise, (y >> 2) + noise, ((x * y) >> 10) & 255, (x + y) % 97 < 3 ? 0 : 255], 4 * i);
-}
+const rgba = benchPicture(W, H);
 const indices = Uint8Array.from({ length: W * H }, (_, i) => (((i % W) >> 4) + ((i / W) >> 4) * 7 + (rgba[4 * i] & 3)) & 255);
 const palette = Array.from({ length: 256 }, (_, i) => [i, (i * 7) & 255, 255 - i, 255] as const);
 const rgbaImage: Image = { kind: "rgba", width: W, height: H, data: rgba };
@@ -77,7 +44,7 @@ const files = {
 
 const rows: string[][] = [];
 for (const [name, png] of Object.entries(files)) {
-  const [library, now, old] = measure([() => decode(png), () => decodePng(png), () => before.decodePng(png)]);
+  const [library, now, old] = measureInterleaved([() => decode(png), () => decodePng(png), () => before.decodePng(png)], ROUNDS, WARM_UP);
   rows.push(
     [`decode ${name} (${(png.length / 1e6).toFixed(1)} MB)`, "fast-png alone", library.toFixed(1), "1.00"],
     ["", "the core now", now.toFixed(1), (now / library).toFixed(2)],
@@ -92,7 +59,11 @@ for (const [name, image] of [
     image.kind === "rgba"
       ? { width: W, height: H, data: image.data, channels: 4, depth: 8 }
       : { width: W, height: H, data: image.data, channels: 1, depth: 8, palette: palette.map((c) => [...c]) };
-  const [library, now, old] = measure([() => encode(input), () => encodePng(image), () => before.encodePng(image)]);
+  const [library, now, old] = measureInterleaved(
+    [() => encode(input), () => encodePng(image), () => before.encodePng(image)],
+    ROUNDS,
+    WARM_UP,
+  );
   rows.push(
     [`encode ${name}`, "fast-png alone", library.toFixed(1), "1.00"],
     ["", "the core now", now.toFixed(1), (now / library).toFixed(2)],
@@ -107,11 +78,6 @@ console.log(
 );
 console.log("÷ library: the case's median over fast-png's own decode or encode of the same file or pixels, in this run. Target ≤ 1.5.");
 console.log("");
-const header = ["case", "implementation", "ms", "÷ library"];
-const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-const line = (r: readonly string[]) => r.map((cell, i) => (i < 2 ? cell.padEnd(widths[i]) : cell.padStart(widths[i]))).join("  ");
-console.log(line(header));
-console.log(widths.map((w) => "-".repeat(w)).join("  "));
-for (const r of rows) console.log(line(r).trimEnd());
+printTable(["case", "implementation", "ms", "÷ library"], rows, [0, 1]);
 console.log("");
 console.log(`peak memory of this process (max RSS): ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);

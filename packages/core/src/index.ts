@@ -31,7 +31,6 @@ export type { CanvasFit, CanvasFitOptions, Sides } from "./canvasFit.ts";
 // Exporters (issue 3): bundle, options, budget, layout and one printer per output.
 export { exportBundle, EXPORT_MAX_BYTES } from "./export/bundle.ts";
 export type { ExportBundle, BundleFile } from "./export/bundle.ts";
-export type { ZipCodec } from "./export/zip.ts";
 export { resolveExportOptions, EXPORT_OUTPUTS, EXPORT_DEFAULTS, SIGNS, ELEMENT_CHOICES, REGISTER_BITS } from "./export/options.ts";
 export type { ExportOptions, ExportOptionsInput, ExportOutput, Sign, ElementChoice } from "./export/options.ts";
 export { ExportOptionError } from "./export/exportOptionError.ts";

@@ -119,7 +119,6 @@ const CORE_TYPES = [
 const EXPORTER_TYPES = [
   "ExportBundle",
   "BundleFile",
-  "ZipCodec",
   "ExportOptions",
   "ExportOptionsInput",
   "ExportOutput",

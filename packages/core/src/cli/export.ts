@@ -147,8 +147,8 @@ ${exportOptionsHelp}`,
     const out = values.out as string | undefined;
     const zip = values.zip as string | undefined;
     if (out === undefined && zip === undefined) throw new UsageError("--out DIR or --zip FILE is required (where to write the bundle)");
-    const [{ exportBundle }, { NODE_ZLIB_CODEC }] = await Promise.all([import("../export/bundle.ts"), import("./nodeZlibCodec.ts")]);
-    const bundle = withOptionErrors(() => exportBundle(effect, options, NODE_ZLIB_CODEC));
+    const { exportBundle } = await import("../export/bundle.ts");
+    const bundle = withOptionErrors(() => exportBundle(effect, options));
     if (out !== undefined) {
       await mkdir(out, { recursive: true });
       for (const f of bundle.files) {

@@ -1,4 +1,3 @@
-import { zipSync } from "fflate";
 import { compileShifts, compileTables } from "../compileTables.ts";
 import type { Effect } from "../effect.ts";
 import { armSource } from "./arm.ts";
@@ -15,7 +14,7 @@ import { resolveExportOptions, type ExportOptions, type ExportOptionsInput } fro
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Source } from "./z80.ts";
-import { zipArchive, type ZipCodec } from "./zip.ts";
+import { zipArchive } from "./zip.ts";
 
 /** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
 export interface BundleFile {
@@ -30,8 +29,8 @@ export interface ExportBundle {
   readonly options: ExportOptions;
   readonly files: readonly BundleFile[];
   /**
-   * A zip of every file (deflate), with a fixed date so the same effect, options and codec give the same bytes; made
-   * when first read, so a caller that only writes the files never pays for it.
+   * A zip of every file (deflate level 1, see export/zip.ts), with a fixed date so the same effect and options give the
+   * same bytes; made when first read, so a caller that only writes the files never pays for it.
    */
   readonly zip: Uint8Array;
   readonly budget: BudgetReport;
@@ -42,14 +41,6 @@ export const EXPORT_MAX_BYTES = 32 * 1024 * 1024;
 
 /** Date stamped on every zip entry: the first day a zip (DOS) date can hold, so bundles are reproducible. */
 const ZIP_DATE = new Date(1980, 0, 1, 0, 0, 0);
-
-/**
- * Deflate level of the zip when no codec is given (fflate in JavaScript, which runs in the app's server and the
- * browser): 6, the zlib default and the level bundles have always had, so those zips keep their bytes. They are
- * downloaded, and text tables shrink to about a third of what level 1 leaves for about 1.3 times its time (measured on a
- * 4096-frame 320 × 240 bundle: 2.8 MB in 1.1 s against 7.6 MB in 0.8 s).
- */
-const ZIP_LEVEL = 6;
 
 /** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted). */
 export function outputTexts(layout: ExportLayout, json: () => string): BundleFile[] {
@@ -94,9 +85,9 @@ export function outputTexts(layout: ExportLayout, json: () => string): BundleFil
  * Makes the export bundle of a validated effect: README.txt, the chosen outputs (C, four assembler dialects, raw
  * binaries, tables document, run-time routine) and the effect document, as files and as one zip. `options.name` is the
  * effect's name (default label and headers). Throws ExportOptionError for a bad or inapplicable option, RangeError when
- * the tables exceed EXPORT_MAX_BYTES. `codec` compresses the zip instead of fflate (the command line passes Node's zlib).
+ * the tables exceed EXPORT_MAX_BYTES.
  */
-export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, codec?: ZipCodec): ExportBundle {
+export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): ExportBundle {
   const resolved = resolveExportOptions(options);
   const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
   const tables = full ?? compileShifts(effect);
@@ -123,10 +114,7 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, c
     options: resolved,
     files,
     get zip() {
-      zip ??= codec
-        ? zipArchive(files, codec, ZIP_DATE)
-        : zipSync(Object.fromEntries(files.map((f) => [f.name, [f.bytes, { mtime: ZIP_DATE }]])), { level: ZIP_LEVEL, mtime: ZIP_DATE });
-      return zip;
+      return (zip ??= zipArchive(files, ZIP_DATE));
     },
     budget,
   };
