@@ -13,18 +13,26 @@ v8.setFlagsFromString("--expose-gc");
 /** A full garbage collection, run before every timed case (outside the timing) so no case pays for another's garbage. */
 export const collectGarbage = vm.runInNewContext("gc") as () => void;
 
-/** Runs every case once per round, rounds interleaved so all see the same machine load; returns each case's median in ms. */
-export function measureInterleaved(cases: readonly (() => unknown)[], rounds: number, warmUp: number): number[] {
-  const times = cases.map(() => [] as number[]);
+/**
+ * Runs every case once per round, rounds interleaved so all see the same machine load; returns each case's median wall
+ * time and median CPU time (user + system of this process, which other processes on a busy machine do not inflate), in ms.
+ */
+export function measureInterleaved(cases: readonly (() => unknown)[], rounds: number, warmUp: number): { wall: number; cpu: number }[] {
+  const wall = cases.map(() => [] as number[]);
+  const cpu = cases.map(() => [] as number[]);
   for (let round = 0; round < warmUp + rounds; round++)
     cases.forEach((run, i) => {
       collectGarbage();
+      const cpuStart = process.cpuUsage();
       const start = performance.now();
       run();
       const ms = performance.now() - start;
-      if (round >= warmUp) times[i].push(ms);
+      const used = process.cpuUsage(cpuStart);
+      if (round < warmUp) return;
+      wall[i].push(ms);
+      cpu[i].push((used.user + used.system) / 1000);
     });
-  return times.map(median);
+  return cases.map((_, i) => ({ wall: median(wall[i]), cpu: median(cpu[i]) }));
 }
 
 /** Prints rows under a header, columns padded; the columns in `left` are left-aligned, the others right-aligned. */
