@@ -384,5 +384,7 @@ export function exportResponse(request: Request, plan: ExportPlan): Response {
   headers.set("Content-Type", "application/zip");
   headers.set("Content-Disposition", `attachment; filename="${plan.fileName}"`);
   headers.set("Content-Length", String(zip.byteLength));
+  // RFC 9530: lets a client (skewsmith pull) check that the bytes arrived whole.
+  headers.set("Content-Digest", `sha-256=:${createHash("sha256").update(zip).digest("base64")}:`);
   return new Response(new Uint8Array(zip.buffer as ArrayBuffer, zip.byteOffset, zip.byteLength), { status: 200, headers });
 }

@@ -16,7 +16,7 @@ export { compileFrame, compileShifts, compileTables } from "./compileTables.ts";
 export type { FrameTables, CompiledFrame, CompiledTables, CompileOptions } from "./compileTables.ts";
 export { frameDiagnostics } from "./frameDiagnostics.ts";
 export type { FrameDiagnostics } from "./frameDiagnostics.ts";
-export { TABLES_FORMAT, tablesDocument } from "./tablesDocument.ts";
+export { TABLES_FORMAT, tablesDocument, tablesText } from "./tablesDocument.ts";
 export type { TablesDocument, TablesDocumentFrame } from "./tablesDocument.ts";
 export { Renderer } from "./render.ts";
 export type { PixelData, Plane, FrameShifts, RenderGeometry, PassNumber } from "./render.ts";

@@ -32,6 +32,7 @@ const CORE_VALUES = [
   "frameDiagnostics",
   "TABLES_FORMAT",
   "tablesDocument",
+  "tablesText",
   "Renderer",
   "renderImage",
   "imagePlane",

@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { TABLES_FORMAT, compileTables, parseEffect, tablesDocument } from "../src/index.ts";
-import { tablesDocumentText } from "../src/tablesDocumentText.ts";
+import { TABLES_FORMAT, compileTables, parseEffect, tablesDocument, tablesText } from "../src/index.ts";
+import { tablesDocumentText } from "../src/tablesDocument.ts";
 import { smallEffect, turningAngle } from "./helpers/arbitraries.ts";
 
 describe("tablesDocument: the skewsmith.tables/1 document of spec §8", () => {
@@ -85,5 +85,19 @@ describe("tablesDocumentText writes the document's JSON straight from the typed 
       ),
       { numRuns: 150 },
     );
+  });
+});
+
+describe("tablesText: what `skewsmith tables` prints", () => {
+  const effect = parseEffect({ canvas: { width: 3, height: 2 }, pivot: { x: 1.5, y: 1 }, angles: { list: [0, 30] } });
+
+  it("is one line of JSON and a newline, or two-space indented JSON when pretty, both the same document", () => {
+    const line = tablesText(effect);
+    const pretty = tablesText(effect, { pretty: true });
+    expect(line.endsWith("}\n")).toBe(true);
+    expect(line.slice(0, -1)).not.toContain("\n");
+    expect(pretty).toMatch(/^\{\n {2}"format": "skewsmith\.tables\/1",\n/);
+    expect(JSON.parse(pretty)).toEqual(JSON.parse(line));
+    expect(JSON.parse(line)).toEqual(JSON.parse(JSON.stringify(tablesDocument(compileTables(effect)))));
   });
 });

@@ -79,6 +79,11 @@ export async function main(args: string[], io: CliIo = processIo): Promise<numbe
       io.stderr(`skewsmith ${name}: ${error.message}\n`);
       return 2;
     }
+    if (error instanceof TypeError && "code" in error && String(error.code).startsWith("ERR_PARSE_ARGS")) {
+      // A command that parses its arguments itself (parseCommandArgs makes these plain): the parser's first line only.
+      io.stderr(`skewsmith ${name}: ${error.message.split("\n")[0]}\n`);
+      return 2;
+    }
     const file = error instanceof Error ? fileMessage(error) : null;
     if (file !== null) {
       io.stderr(`skewsmith ${name}: ${file}\n`);

@@ -18,15 +18,9 @@ options:
   async run(args, io) {
     const { positionals, values } = parseCommandArgs(args, { pretty: { type: "boolean" } });
     // The work is loaded when a command runs, so that --help and --version start at once.
-    const [{ readEffectFile }, { compileTables }, { tablesDocument }, { tablesDocumentText }] = await Promise.all([
-      import("./readEffectFile.ts"),
-      import("../compileTables.ts"),
-      import("../tablesDocument.ts"),
-      import("../tablesDocumentText.ts"),
-    ]);
+    const [{ readEffectFile }, { tablesText }] = await Promise.all([import("./readEffectFile.ts"), import("../tablesDocument.ts")]);
     const effect = await readEffectFile(positionals[0], io);
-    const tables = compileTables(effect);
-    io.stdout(`${values.pretty ? JSON.stringify(tablesDocument(tables), null, 2) : tablesDocumentText(tables)}\n`);
+    io.stdout(tablesText(effect, { pretty: values.pretty }));
     return 0;
   },
 };
