@@ -41,6 +41,7 @@ const CORE_VALUES = [
   "placeImage",
   "decodePng",
   "encodePng",
+  "pngHeader",
   "PngError",
   "canvasFit",
 ];
@@ -110,6 +111,7 @@ const CORE_TYPES = [
   "IndexedImage",
   "RgbaImage",
   "Rgba",
+  "PngHeader",
   "CanvasFit",
   "CanvasFitOptions",
   "Sides",
