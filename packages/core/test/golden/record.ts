@@ -1,0 +1,38 @@
+/**
+ * Records the golden fixtures (test/golden/fixtures.json and the full files under test/golden/files/) from the code as
+ * it is. Run it only to pin outputs that changed on purpose, and say why in the commit:
+ *   npx tsx test/golden/record.ts        (from packages/core)
+ */
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { format } from "prettier";
+import { EXPORT_JOBS, RENDER_JOBS, TABLES_JOBS } from "./cases.ts";
+import { FULL_FILES, fixturesUrl, filesUrl, type Fixtures } from "./fixtures.ts";
+import { exportOutput, renderOutputs, tablesOutput } from "./outputs.ts";
+
+const dir = mkdtempSync(join(tmpdir(), "skewsmith-golden-"));
+try {
+  const fixtures: Fixtures = { tables: {}, render: {}, export: {} };
+  for (const job of TABLES_JOBS) {
+    const { text, digest } = await tablesOutput(job, dir);
+    fixtures.tables[job.id] = digest;
+    const full = FULL_FILES.tables[job.id];
+    if (full) writeFileSync(new URL(full, filesUrl), text);
+    console.log(`tables ${job.id}: ${digest.means.length} frames`);
+  }
+  for (const job of RENDER_JOBS) {
+    fixtures.render[job.id] = await renderOutputs(job, dir);
+    console.log(`render ${job.id}`);
+  }
+  for (const job of EXPORT_JOBS) {
+    const { digest, files } = await exportOutput(job, mkdtempSync(join(dir, "job-")));
+    fixtures.export[job.id] = digest;
+    for (const [name, file] of Object.entries(FULL_FILES.export[job.id] ?? {})) writeFileSync(new URL(file, filesUrl), files.get(name)!);
+    console.log(`export ${job.id}: ${digest.files.length} files`);
+  }
+  const text = await format(JSON.stringify(fixtures), { parser: "json", printWidth: 140 });
+  writeFileSync(fixturesUrl, text);
+} finally {
+  rmSync(dir, { recursive: true, force: true });
+}
