@@ -37,6 +37,9 @@ function Header() {
                 Mailbox
               </Link>
             ) : null}
+            <Link to="/settings" className="text-ink-400 hover:text-glass-300">
+              Settings
+            </Link>
             <span className="text-ink-300" data-testid="signed-in-as">
               {user.name ?? user.login} <span className="num text-ink-500">@{user.login}</span>
             </span>

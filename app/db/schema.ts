@@ -22,13 +22,12 @@ import {
 } from "drizzle-orm/pg-core";
 import type { Effect as EffectDocument } from "@skewsmith/core";
 import { ROLES, type Role } from "../roles.ts";
+import { TOKEN_SCOPES, type TokenScope } from "../tokens.ts";
 
 export { ROLES, type Role };
 export const roleEnum = pgEnum("role", ROLES);
 
-/** What an API token may do: read, or write (which includes read). */
-export const TOKEN_SCOPES = ["read", "write"] as const;
-export type TokenScope = (typeof TOKEN_SCOPES)[number];
+export { TOKEN_SCOPES, type TokenScope };
 export const tokenScopeEnum = pgEnum("token_scope", TOKEN_SCOPES);
 
 /** How a sprite's pixels are kept: palette indices, or 8-bit RGBA. */
@@ -220,7 +219,7 @@ export const sprites = pgTable(
     version: version(),
     ...timestamps,
   },
-  (t) => [index().on(t.projectId)],
+  (t) => [index().on(t.projectId), uniqueIndex("sprites_project_name_key").on(t.projectId, sql`lower(${t.name})`)],
 );
 
 export const effects = pgTable(
@@ -229,6 +228,8 @@ export const effects = pgTable(
     id: uuidKey(),
     projectId: projectRef(),
     name: text().notNull(),
+    /** What the effect is for, and anything it shows on purpose (say, a canvas kept tight to teach something). */
+    description: text().notNull().default(""),
     /** The effect document (skewsmith.effect/1), stored only after core's parseEffect accepted it. */
     document: jsonb().$type<EffectDocument>().notNull(),
     /** Bumped on every change of the document; a save names the version it started from. */

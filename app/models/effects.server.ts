@@ -64,8 +64,12 @@ export async function createEffect(
     projectId: string;
     name: string;
     actorId: string | null;
+    description?: string;
     targetProfileId?: string | null;
     spriteId?: string | null;
+    /** Where the sprite's top-left pixel sits in the canvas; null or absent centres it. */
+    spriteX?: number | null;
+    spriteY?: number | null;
     document?: unknown;
   },
 ): Promise<EffectRow> {
@@ -94,9 +98,12 @@ export async function createEffect(
         .values({
           projectId: project.id,
           name: input.name,
+          description: input.description ?? "",
           document,
           targetProfileId: profile?.id ?? null,
           spriteId: input.spriteId ?? null,
+          spriteX: input.spriteX ?? null,
+          spriteY: input.spriteY ?? null,
           createdBy: input.actorId,
           updatedBy: input.actorId,
         })
@@ -155,9 +162,14 @@ export async function duplicateEffect(db: Tx, input: { effectId: string; actorId
       .values({
         projectId: project.id,
         name,
+        description: source.description,
         document: validDocument(source.document),
         targetProfileId: source.targetProfileId,
+        followsProfile: source.followsProfile,
         spriteId: source.spriteId,
+        spriteX: source.spriteX,
+        spriteY: source.spriteY,
+        keyPixels: source.keyPixels,
         createdBy: input.actorId,
         updatedBy: input.actorId,
       })
@@ -274,6 +286,7 @@ export async function saveEffectDocument(
 export interface EffectListItem {
   id: string;
   name: string;
+  description: string;
   version: number;
   document: Effect;
   targetProfileName: string | null;
@@ -289,6 +302,7 @@ export async function listEffects(db: Tx, projectId: string, options: { deleted?
     .select({
       id: effects.id,
       name: effects.name,
+      description: effects.description,
       version: effects.version,
       document: effects.document,
       targetProfileName: targetProfiles.name,

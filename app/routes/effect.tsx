@@ -88,9 +88,16 @@ export default function EffectPage({ loaderData }: Route.ComponentProps) {
             </>
           }
           actions={
-            <a href={`/effects/${effect.id}/document.json`} className={buttonClass("secondary")} download>
-              Download effect document
-            </a>
+            <>
+              {sprite ? (
+                <a href={`/effects/${effect.id}/frames.png`} className={buttonClass("secondary")} target="_blank" rel="noreferrer">
+                  Contact sheet (PNG)
+                </a>
+              ) : null}
+              <a href={`/effects/${effect.id}/document.json`} className={buttonClass("secondary")} download>
+                Download effect document
+              </a>
+            </>
           }
         />
         {effect.deletedAt ? (

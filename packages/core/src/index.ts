@@ -22,7 +22,7 @@ export { DIAGNOSTICS_REQUEST, DIAGNOSTICS_RESULT, DIAGNOSTICS_ERROR, diagnostics
 export { handleDiagnosticsRequest, serveDiagnostics, requestDiagnostics, splitFrames, mergeDiagnostics } from "./diagnostics/protocol.ts";
 export type { DiagnosticsRequest, DiagnosticsResult, DiagnosticsError, DiagnosticsResponse } from "./diagnostics/protocol.ts";
 export type { DiagnosticsReply, DiagnosticsEndpoint, DiagnosticsPort } from "./diagnostics/protocol.ts";
-export { TABLES_FORMAT, tablesDocument } from "./tablesDocument.ts";
+export { TABLES_FORMAT, tablesDocument, tablesText } from "./tablesDocument.ts";
 export type { TablesDocument, TablesDocumentFrame } from "./tablesDocument.ts";
 export { Renderer } from "./render.ts";
 export type { PixelData, Plane, FrameShifts, RenderGeometry, PassNumber } from "./render.ts";

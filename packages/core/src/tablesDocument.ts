@@ -1,4 +1,4 @@
-import type { CompiledTables } from "./compileTables.ts";
+import { compileTables, type CompiledTables } from "./compileTables.ts";
 import type { Effect } from "./effect.ts";
 import type { ElementType } from "./elementType.ts";
 
@@ -54,4 +54,12 @@ export function tablesDocument(tables: CompiledTables): TablesDocument {
       maxAbsShift: f.maxAbsShift,
     })),
   };
+}
+
+/**
+ * The tables document of an effect as the text `skewsmith tables` prints: one JSON object and a newline, indented by two
+ * spaces when `pretty`. The command line and the app's API both print through this, so their bytes are the same.
+ */
+export function tablesText(effect: Effect, options: { readonly pretty?: boolean } = {}): string {
+  return `${JSON.stringify(tablesDocument(compileTables(effect)), null, options.pretty ? 2 : undefined)}\n`;
 }

@@ -42,6 +42,7 @@ const CORE_VALUES = [
   "mergeDiagnostics",
   "TABLES_FORMAT",
   "tablesDocument",
+  "tablesText",
   "Renderer",
   "renderImage",
   "imagePlane",

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { TABLES_FORMAT, compileTables, parseEffect, tablesDocument } from "../src/index.ts";
+import { TABLES_FORMAT, compileTables, parseEffect, tablesDocument, tablesText } from "../src/index.ts";
 
 describe("tablesDocument: the skewsmith.tables/1 document of spec §8", () => {
   const effect = parseEffect({ canvas: { width: 2, height: 2 }, pivot: { x: 1, y: 1 }, angles: { list: [0, 90] } });
@@ -56,5 +56,19 @@ describe("tablesDocument: the skewsmith.tables/1 document of spec §8", () => {
   it("is plain JSON: tables are arrays and it survives a JSON round trip unchanged", () => {
     expect(Array.isArray(doc.frames[1].h)).toBe(true);
     expect(JSON.parse(JSON.stringify(doc))).toEqual(doc);
+  });
+});
+
+describe("tablesText: what `skewsmith tables` prints", () => {
+  const effect = parseEffect({ canvas: { width: 3, height: 2 }, pivot: { x: 1.5, y: 1 }, angles: { list: [0, 30] } });
+
+  it("is one line of JSON and a newline, or two-space indented JSON when pretty, both the same document", () => {
+    const line = tablesText(effect);
+    const pretty = tablesText(effect, { pretty: true });
+    expect(line.endsWith("}\n")).toBe(true);
+    expect(line.slice(0, -1)).not.toContain("\n");
+    expect(pretty).toMatch(/^\{\n {2}"format": "skewsmith\.tables\/1",\n/);
+    expect(JSON.parse(pretty)).toEqual(JSON.parse(line));
+    expect(JSON.parse(line)).toEqual(JSON.parse(JSON.stringify(tablesDocument(compileTables(effect)))));
   });
 });

@@ -1,6 +1,5 @@
 import { parseArgs } from "node:util";
-import { compileTables } from "../compileTables.ts";
-import { tablesDocument } from "../tablesDocument.ts";
+import { tablesText } from "../tablesDocument.ts";
 import type { Command } from "./io.ts";
 import { readEffectFile } from "./readEffectFile.ts";
 
@@ -21,8 +20,7 @@ options:
   async run(args, io) {
     const { positionals, values } = parseArgs({ args, allowPositionals: true, options: { pretty: { type: "boolean" } } });
     const effect = await readEffectFile(positionals[0], io);
-    const doc = tablesDocument(compileTables(effect));
-    io.stdout(`${JSON.stringify(doc, null, values.pretty ? 2 : undefined)}\n`);
+    io.stdout(tablesText(effect, { pretty: values.pretty }));
     return 0;
   },
 };
