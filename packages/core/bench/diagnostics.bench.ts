@@ -15,19 +15,15 @@
  * Run: `npx tsx bench/diagnostics.bench.ts [rounds]` (default 5 rounds after 1 warm-up round).
  */
 import os from "node:os";
-import v8 from "node:v8";
-import vm from "node:vm";
 import { compileShifts, compileTables } from "../src/compileTables.ts";
 import { defaultWorkers } from "../src/diagnostics/nodePool.ts";
 import { parseEffect, type Effect } from "../src/effect.ts";
 import { frameDiagnostics as baselineDiagnostics } from "./baseline/frameDiagnostics.ts";
+import { collectGarbage, median } from "./support.ts";
 
 const FRAMES = 4096;
 const ROUNDS = Number(process.argv[2] ?? 5);
 const SAMPLE = 16;
-
-v8.setFlagsFromString("--expose-gc");
-const collectGarbage = vm.runInNewContext("gc") as () => void;
 
 const effectFor = (width: number, height: number): Effect =>
   parseEffect({
@@ -35,12 +31,6 @@ const effectFor = (width: number, height: number): Effect =>
     pivot: { x: width / 2, y: height / 2 },
     angles: { sweep: { from: 0, to: 360, frames: FRAMES } },
   });
-
-const median = (xs: readonly number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 interface Case {
   readonly name: string;

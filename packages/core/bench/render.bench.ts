@@ -18,14 +18,13 @@
  * Run: `npx tsx bench/render.bench.ts [rounds]` (default 11 rounds after 2 warm-up rounds).
  */
 import os from "node:os";
-import v8 from "node:v8";
-import vm from "node:vm";
 import type { Sharp } from "sharp";
 import type sharpLibrary from "sharp";
 import { compileFrame } from "../src/compileTables.ts";
 import { parseEffect, type Effect } from "../src/effect.ts";
 import { Renderer } from "../src/render.ts";
 import { Renderer as BaselineRenderer } from "./baseline/render.ts";
+import { collectGarbage, median } from "./support.ts";
 
 const W = 3840;
 const H = 2160;
@@ -33,11 +32,6 @@ const N = W * H;
 const ANGLES = [7, 30, 80];
 const ROUNDS = Number(process.argv[2] ?? 11);
 const WARM_UP = 2;
-
-// A full collection before every timed case, outside the timing, so no case pays for another's garbage (the library's
-// output buffers are large).
-v8.setFlagsFromString("--expose-gc");
-const collectGarbage = vm.runInNewContext("gc") as () => void;
 
 // Every source pixel gets its own opaque colour: id + 1 in R, G, B (little-endian words), alpha 255; 0 is background.
 const ID_MASK = 0xffffff;
@@ -211,12 +205,6 @@ async function measure(phase: readonly Case[]): Promise<void> {
 
 for (const g of groups) g.lib.kept = share(kept(words((await library(g.degrees)).data)));
 await measure(cases);
-
-const median = (xs: readonly number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 const floorMs = median(floor.times);
 const cpu = os.cpus();

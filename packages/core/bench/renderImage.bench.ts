@@ -14,8 +14,6 @@
  * Run: `npx tsx bench/renderImage.bench.ts [rounds]` (default 15 rounds after 3 warm-up rounds).
  */
 import os from "node:os";
-import v8 from "node:v8";
-import vm from "node:vm";
 import { compileFrame } from "../src/compileTables.ts";
 import { parseEffect } from "../src/effect.ts";
 import { imagePlane, type Image } from "../src/image.ts";
@@ -23,20 +21,12 @@ import { Renderer } from "../src/render.ts";
 import { renderImage } from "../src/renderImage.ts";
 import { Renderer as BaselineRenderer } from "./baseline/render.ts";
 import { renderImage as baselineRenderImage } from "./baseline/renderImage.ts";
+import { collectGarbage, median } from "./support.ts";
 
 const W = 1920;
 const H = 1080;
 const ROUNDS = Number(process.argv[2] ?? 15);
 const WARM_UP = 3;
-
-v8.setFlagsFromString("--expose-gc");
-const collectGarbage = vm.runInNewContext("gc") as () => void;
-
-const median = (xs: readonly number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 interface Case {
   readonly name: string;

@@ -11,11 +11,10 @@
  * Run: `npx tsx bench/tables.bench.ts [rounds]` (default 7 rounds after 2 warm-up rounds; the 1920×1080 diagnostics run once).
  */
 import os from "node:os";
-import v8 from "node:v8";
-import vm from "node:vm";
 import { compileShifts, compileTables } from "../src/compileTables.ts";
 import { parseEffect, type Effect } from "../src/effect.ts";
 import { frameDiagnostics as baselineDiagnostics } from "./baseline/frameDiagnostics.ts";
+import { collectGarbage, median } from "./support.ts";
 
 const FRAMES = 4096;
 const ROUNDS = Number(process.argv[2] ?? 7);
@@ -27,16 +26,6 @@ const effectFor = (width: number, height: number): Effect =>
     pivot: { x: width / 2, y: height / 2 },
     angles: { sweep: { from: 0, to: 360, frames: FRAMES } },
   });
-
-// A full collection before every timed case, outside the timing, so no case pays for another's garbage.
-v8.setFlagsFromString("--expose-gc");
-const collectGarbage = vm.runInNewContext("gc") as () => void;
-
-const median = (xs: readonly number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 /** Runs every case once per round, rounds interleaved; returns each case's median in ms. */
 function measure(cases: readonly (() => unknown)[], rounds: number, warmUp: number): number[] {
