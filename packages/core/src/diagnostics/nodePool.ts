@@ -11,6 +11,11 @@
  * Node's modules are reached through `process.getBuiltinModule` at run time, never imported, so the modules that import
  * this one still load in a browser; there, and wherever workers cannot start, `nodePool` returns null and the caller
  * measures on its own thread.
+ *
+ * The worker module is found beside this one, with this module's extension: `./nodeWorker.ts` from source (the worker
+ * then registers tsx's loader first, as the calling thread runs under it), `./nodeWorker.js` in a build. A build that
+ * compiles file by file keeps that; a bundle must emit `nodeWorker.js` as an entry of its own beside the bundle file
+ * that holds this code, else there are no workers (and no error: the calling thread measures everything).
  */
 import type * as NodeFs from "node:fs";
 import type * as NodeModule from "node:module";
