@@ -3,7 +3,7 @@
  *
  * Cases, rounds interleaved, medians (ms per call):
  *   renderer        Renderer.render on the renderer's own planes: the internal renderer, the reference;
- *   renderImage     the public call (a kept renderer, gathering straight into a new output buffer);
+ *   renderImage     the public call (a kept renderer drawing on its own planes, then one block copy into a new buffer);
  *   into a buffer   renderImage with a caller's output buffer;
  *   baseline        renderImage before issue 10 (bench/baseline/renderImage.ts: a new renderer and planes per call,
  *                   then a copy into the output).

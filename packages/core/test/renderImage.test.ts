@@ -187,7 +187,7 @@ describe("renderImage into a caller's buffer, with its renderers kept across cal
       ),
     );
 
-  it("stores the frame straight into `out` and returns it as the image's pixels, for every pass", () => {
+  it("fills `out` with the frame and returns it as the image's pixels, for every pass", () => {
     for (const f of frames)
       for (const pass of [1, 2, 3] as const) {
         const out = new Uint8Array(33 * 21 * 4).fill(9);
