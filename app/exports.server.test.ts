@@ -8,6 +8,7 @@ import { strFromU8, unzipSync } from "fflate";
 import { afterAll, describe, expect, it } from "vitest";
 import { makeEffect, makeProject, makeTargetProfile, makeTeam, makeUser } from "../tests/factories.ts";
 import { testDb } from "../tests/support/db.ts";
+import { profileLabel } from "./exports/defaults.ts";
 import { deleteEffect, saveEffectDocument } from "./models/effects.server.ts";
 import { DomainError } from "./models/errors.ts";
 import {
@@ -17,10 +18,10 @@ import {
   exportResponse,
   planEffectExport,
   planProjectExport,
-  profileExportDefaults,
   projectExportSources,
   type ExportPlan,
 } from "./exports.server.ts";
+import type { ProfileExportSettings } from "./profiles/apply.ts";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const db = testDb();
@@ -28,7 +29,7 @@ afterAll(() => db.$client.end());
 
 const DOC = { canvas: { width: 24, height: 16 }, pivot: { x: 12, y: 8 }, angles: { sweep: { from: 0, to: 90, frames: 6 } } };
 const query = (q: string) => exportQuery(new URLSearchParams(q));
-const source = (name = "Harbour light", document: unknown = DOC, profile = null as Parameters<typeof profileExportDefaults>[0]) => ({
+const source = (name = "Harbour light", document: unknown = DOC, profile = null as ProfileExportSettings | null) => ({
   effect: { id: "00000000-0000-4000-8000-000000000001", name, document },
   profile,
 });
@@ -101,25 +102,28 @@ describe("export options from a query string", () => {
 });
 
 describe("a target profile's export defaults", () => {
-  it("labels with the prefix, exports the profile's dialects and its stored options", () => {
-    expect(profileExportDefaults({ labelPrefix: "rose_", dialects: ["ca65"], exportOptions: {} })).toEqual({
-      label: "rose",
-      outputs: ["6502"],
-    });
-    expect(
-      profileExportDefaults({
-        labelPrefix: "storm",
-        dialects: ["c99", "m68k"],
-        exportOptions: { sign: "scroll", registerBits: 9, split: true },
-      }),
-    ).toEqual({ label: "storm", outputs: ["c", "68k"], sign: "scroll", registerBits: 9, split: true });
-    expect(profileExportDefaults(null)).toEqual({});
-    expect(profileExportDefaults({ labelPrefix: "", dialects: [], exportOptions: {} })).toEqual({});
+  // The mapping itself is exportDefaultsForProfile (app/exports/defaults.ts, tested in targetProfiles.server.test.ts);
+  // here: what an export planned from a stored profile does with it.
+  it("labels with the prefix before the effect's own label, exports the profile's dialects and its stored options", () => {
+    const storm = { labelPrefix: "storm", dialects: ["c", "68k"], exportOptions: { sign: "scroll", registerBits: 9, split: true } };
+    expect(planEffectExport(source("Tilt", DOC, storm), {}).fileName).toBe("storm_tilt.zip");
+    expect(Object.keys(unzipSync(planEffectExport(source("Tilt", DOC, storm), {}).build())).sort()).toEqual([
+      "README.txt",
+      "storm_tilt.68k.s",
+      "storm_tilt.c",
+      "storm_tilt.effect.json",
+      "storm_tilt.h",
+    ]);
+    expect(planEffectExport(source("Tilt", DOC, storm), {}).etag).toBe(
+      planEffectExport(source("Tilt"), query("label=storm_tilt&outputs=c,68k&sign=scroll&registerBits=9&split")).etag,
+    );
   });
 
   it("leaves out what core would refuse, and keys that are not options", () => {
     const stored = JSON.parse('{"__proto__": {"polluted": 1}, "sign": "sideways", "element": "int8", "label": "for", "bogus": 1}');
-    expect(profileExportDefaults({ labelPrefix: "do", dialects: ["cobol"], exportOptions: stored })).toEqual({ element: "int8" });
+    const plan = planEffectExport(source("Tilt", DOC, { labelPrefix: "do", dialects: ["cobol"], exportOptions: stored }), {});
+    // "do" alone is a C keyword, but as a prefix it makes the valid label do_tilt; the unknown dialect and option go.
+    expect(plan.etag).toBe(planEffectExport(source("Tilt"), query("label=do_tilt&element=int8")).etag);
     expect(({} as Record<string, unknown>).polluted).toBeUndefined();
   });
 });
@@ -154,9 +158,13 @@ describe("the export of one effect", () => {
   });
 
   it("uses the profile's label and dialects unless the query says otherwise", () => {
-    const profile = { labelPrefix: "rose_", dialects: ["ca65"], exportOptions: {} };
+    const profile = { labelPrefix: "rose", dialects: ["6502"], exportOptions: {} };
     const files = (plan: ExportPlan) => Object.keys(unzipSync(plan.build())).sort();
-    expect(files(planEffectExport(source("Compass", DOC, profile), {}))).toEqual(["README.txt", "rose.6502.s", "rose.effect.json"]);
+    expect(files(planEffectExport(source("Compass", DOC, profile), {}))).toEqual([
+      "README.txt",
+      "rose_compass.6502.s",
+      "rose_compass.effect.json",
+    ]);
     expect(files(planEffectExport(source("Compass", DOC, profile), query("label=dial&outputs=c")))).toEqual([
       "README.txt",
       "dial.c",
@@ -198,8 +206,8 @@ describe("the export of one effect", () => {
       planEffectExport(source(), query("dedupe")).etag,
       planEffectExport(source(), query("element=int32")).etag,
       planEffectExport(source(), query("label=lamp")).etag,
-      planEffectExport(source("Harbour light", DOC, { labelPrefix: "quay_", dialects: [], exportOptions: {} }), {}).etag,
-      planEffectExport(source("Harbour light", DOC, { labelPrefix: "", dialects: ["ca65"], exportOptions: {} }), {}).etag,
+      planEffectExport(source("Harbour light", DOC, { labelPrefix: "quay", dialects: [], exportOptions: {} }), {}).etag,
+      planEffectExport(source("Harbour light", DOC, { labelPrefix: "", dialects: ["6502"], exportOptions: {} }), {}).etag,
       planEffectExport(source("Harbour light", DOC, { labelPrefix: "", dialects: [], exportOptions: { registerBits: 10 } }), {}).etag,
     ];
     expect(new Set([base, ...others]).size).toBe(others.length + 1);
@@ -244,7 +252,7 @@ describe("the export of a project", () => {
     const owner = await makeUser(db);
     const team = await makeTeam(db, { owner });
     const p = await makeProject(db, { team, actor: owner, name: "Lantern test quay" });
-    const quay = await makeTargetProfile(db, { team, labelPrefix: "quay_", dialects: ["ca65", "c99"] });
+    const quay = await makeTargetProfile(db, { team, labelPrefix: "quay", dialects: ["6502", "c"] });
     return { owner, team, project: p, quay };
   }
 
@@ -263,12 +271,12 @@ describe("the export of a project", () => {
     const readme = strFromU8(zip["README.txt"]);
     expect(readme).toContain('"Lantern test quay"');
     expect(readme).toMatch(/anchor_spin\/\s+Anchor spin \(3 frames\)/);
-    expect(readme).toMatch(/quay\/\s+Beacon \(6 frames\)/);
+    expect(readme).toMatch(/quay_beacon\/\s+Beacon \(6 frames\)/);
 
     // Each folder is exactly that effect's own bundle, as its own export makes it.
     for (const s of sources) {
       const own = unzipSync(planEffectExport(s, query("dedupe")).build());
-      const label = s.effect.name === "Beacon" ? "quay" : "anchor_spin";
+      const label = s.effect.name === "Beacon" ? "quay_beacon" : "anchor_spin";
       const inFolder = Object.fromEntries(
         Object.entries(zip)
           .filter(([n]) => n.startsWith(`${label}/`))
@@ -277,17 +285,25 @@ describe("the export of a project", () => {
       expect(Object.keys(inFolder).sort()).toEqual(Object.keys(own).sort());
       for (const [n, bytes] of Object.entries(own)) expect(Buffer.from(inFolder[n]).equals(Buffer.from(bytes)), n).toBe(true);
     }
-    expect(Object.keys(zip).filter((n) => n.startsWith("quay/"))).toEqual(
-      expect.arrayContaining(["quay/quay.6502.s", "quay/quay.h", "quay/quay.c"]),
+    expect(Object.keys(zip).filter((n) => n.startsWith("quay_beacon/"))).toEqual(
+      expect.arrayContaining(["quay_beacon/quay_beacon.6502.s", "quay_beacon/quay_beacon.h", "quay_beacon/quay_beacon.c"]),
     );
     expect(Object.keys(zip).some((n) => n.includes("gone"))).toBe(false);
   });
 
   it("gives effects whose labels would repeat a numeric suffix, so their symbols stay apart", async () => {
     const { owner, project: p, quay } = await project();
+    // Under one profile each effect's label has its own name after the prefix; labels repeat only when the query sets one.
     for (const name of ["Crane", "Buoy", "Ferry"])
       await makeEffect(db, { project: p, actor: owner, name, document: DOC, targetProfile: quay });
-    const zip = unzipSync(planProjectExport(p, await projectExportSources(db, p), {}).build());
+    const own = unzipSync(planProjectExport(p, await projectExportSources(db, p), {}).build());
+    expect([...new Set(Object.keys(own).map((n) => n.split("/")[0]))].sort()).toEqual([
+      "README.txt",
+      "quay_buoy",
+      "quay_crane",
+      "quay_ferry",
+    ]);
+    const zip = unzipSync(planProjectExport(p, await projectExportSources(db, p), query("label=quay")).build());
     const folders = [...new Set(Object.keys(zip).map((n) => n.split("/")[0]))].sort();
     expect(folders).toEqual(["README.txt", "quay", "quay_2", "quay_3"]);
     expect(strFromU8(zip["quay_2/quay_2.h"])).toContain("quay_2_h");
@@ -315,14 +331,15 @@ describe("an effect's export source", () => {
     const owner = await makeUser(db);
     const team = await makeTeam(db, { owner });
     const p = await makeProject(db, { team, actor: owner });
-    const profile = await makeTargetProfile(db, { team, labelPrefix: "pier_" });
+    const profile = await makeTargetProfile(db, { team, labelPrefix: "pier" });
     const withProfile = await makeEffect(db, { project: p, actor: owner, targetProfile: profile });
     const without = await makeEffect(db, { project: p, actor: owner });
     expect((await effectExportSource(db, withProfile)).profile).toMatchObject({ labelPrefix: profile.labelPrefix });
     expect((await effectExportSource(db, without)).profile).toBeNull();
-    expect(planEffectExport(await effectExportSource(db, withProfile), {}).fileName).toBe("pier.zip");
+    const label = profileLabel("pier", withProfile.name);
+    expect(planEffectExport(await effectExportSource(db, withProfile), {}).fileName).toBe(`${label}.zip`);
     // The saved document is what is exported.
-    const bundle = exportBundle(parseEffect(withProfile.document), { name: withProfile.name, label: "pier" });
+    const bundle = exportBundle(parseEffect(withProfile.document), { name: withProfile.name, label });
     expect(Buffer.from(planEffectExport(await effectExportSource(db, withProfile), {}).build()).equals(Buffer.from(bundle.zip))).toBe(true);
   });
 });

@@ -6,7 +6,6 @@
  */
 import { createHash } from "node:crypto";
 import {
-  EXPORT_OUTPUTS,
   ExportOptionError,
   REGISTER_BITS,
   checkLabel,
@@ -22,7 +21,9 @@ import canonicalize from "canonicalize";
 import { and, asc, eq, isNull, sql } from "drizzle-orm";
 import { zipSync, type Zippable } from "fflate";
 import type { Tx } from "./db/client.server.ts";
-import { effects, targetProfiles, type EffectRow, type Project, type TargetProfile } from "./db/schema.ts";
+import { effects, targetProfiles, type EffectRow, type Project } from "./db/schema.ts";
+import { exportDefaultsForProfile } from "./exports/defaults.ts";
+import type { ProfileExportSettings } from "./profiles/apply.ts";
 import { validDocument } from "./models/effects.server.ts";
 import { DomainError } from "./models/errors.ts";
 
@@ -106,62 +107,7 @@ export function exportQuery(params: URLSearchParams): ExportQuery {
   return query;
 }
 
-/** The part of a target profile that shapes its effects' exports. */
-export type ProfileExportSettings = Pick<TargetProfile, "labelPrefix" | "dialects" | "exportOptions">;
-
-/** Dialect names a profile may list, and the output each one makes. */
-const DIALECT_OUTPUTS: Readonly<Record<string, ExportOutput>> = {
-  c: "c",
-  c99: "c",
-  ca65: "6502",
-  "6502": "6502",
-  "65816": "6502",
-  "68k": "68k",
-  m68k: "68k",
-  "68000": "68k",
-  arm: "arm",
-  thumb: "arm",
-  z80: "z80",
-  sm83: "z80",
-  bin: "bin",
-  json: "json",
-  runtime: "runtime",
-};
-
-const PROFILE_OPTION_KEYS = ["outputs", "label", "sign", "registerBits", "element", "split", "half", "dedupe"] as const;
-
-/**
- * The export defaults of an effect that uses `profile`: its label prefix as the label (`rose_` labels `rose_h`,
- * `rose_v`…), its dialects as the outputs, and its stored export options. Anything core would refuse is left out, so a
- * profile saved by an older version never breaks an export; an explicit query parameter overrides every default.
- *
- * Merge note: the target-profile work owns this mapping; this is the small stand-in the export routes use until then.
- */
-export function profileExportDefaults(profile: ProfileExportSettings | null): ExportOptionsInput {
-  if (!profile) return {};
-  const out: ExportQuery = {};
-  const stored = profile.exportOptions ?? {};
-  for (const key of PROFILE_OPTION_KEYS) {
-    if (!Object.hasOwn(stored, key)) continue;
-    try {
-      const resolved = resolveExportOptions({ [key]: stored[key] } as ExportOptionsInput);
-      (out as Record<string, unknown>)[key] = resolved[key];
-    } catch (error) {
-      if (!(error instanceof ExportOptionError)) throw error;
-    }
-  }
-  const outputs = [...new Set(profile.dialects.map((d) => DIALECT_OUTPUTS[d.trim().toLowerCase()]).filter(Boolean))];
-  if (outputs.length > 0) out.outputs = EXPORT_OUTPUTS.filter((o) => outputs.includes(o));
-  const prefix = profile.labelPrefix.trim().replace(/_+$/, "");
-  if (prefix !== "") {
-    try {
-      out.label = checkLabel(prefix);
-    } catch (error) {
-      if (!(error instanceof ExportOptionError)) throw error;
-    }
-  }
-  return out;
-}
+export type { ProfileExportSettings } from "./profiles/apply.ts";
 
 /** One effect to export: its stored row and the profile it uses (if any). */
 export interface ExportSource {
@@ -188,7 +134,8 @@ interface EffectInputs {
 function effectInputs(source: ExportSource, query: ExportQuery, labelOverride?: string): EffectInputs {
   const document = validDocument(source.effect.document);
   const input: ExportOptionsInput = {
-    ...profileExportDefaults(source.profile),
+    // The profile's label prefix, dialects and options (app/exports/defaults.ts), or core's defaults without one.
+    ...exportDefaultsForProfile(source.profile, source.effect.name),
     ...query,
     ...(labelOverride !== undefined && { label: labelOverride }),
     name: source.effect.name,

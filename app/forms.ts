@@ -53,6 +53,21 @@ export const changeRoleForm = z.object({
 
 export const memberForm = z.object({ userId: id("member") });
 
+/** Longest e-mail address accepted, in characters (RFC 5321 §4.5.3.1.3 limits a path to 256 octets, brackets included; from memory). */
+export const EMAIL_MAX = 254;
+
+export const inviteForm = z.object({
+  email: z
+    .string({ error: "Give the e-mail address to invite." })
+    .trim()
+    .min(1, "Give the e-mail address to invite.")
+    .max(EMAIL_MAX, `An e-mail address has at most ${EMAIL_MAX} characters.`)
+    .pipe(z.email("That is not an e-mail address (say, name@example.com).")),
+  role: z.enum(ROLES, { error: `Choose a role: ${ROLES.join(", ")}.` }),
+});
+
+export const invitationForm = z.object({ invitationId: id("invitation") });
+
 export const projectForm = z.object({
   name: name("project"),
   description: z.string().trim().max(DESCRIPTION_MAX, `Keep the description to ${DESCRIPTION_MAX} characters or fewer.`).default(""),

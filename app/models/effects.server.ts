@@ -81,7 +81,9 @@ export async function createEffect(
         [profile] = await tx
           .select()
           .from(targetProfiles)
-          .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)));
+          .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)))
+          // Held until commit, so a profile change cannot slip in between reading its settings and following it.
+          .for("share");
         if (!profile) throw new DomainError("That target profile does not belong to this team.", { field: "targetProfileId" });
       }
       if (input.spriteId) {

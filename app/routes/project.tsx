@@ -44,7 +44,7 @@ import {
   type ActionResult,
 } from "../forms.ts";
 import { requireProjectRole } from "../guards.server.ts";
-import { listActivity } from "../models/activity.server.ts";
+import { listProjectActivityPage } from "../models/activity.server.ts";
 import {
   createEffect,
   deleteEffect,
@@ -68,7 +68,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     listEffects(db(), project.id, { deleted: true }),
     listTargetProfiles(db(), team.id, project.id),
     listSprites(db(), project.id),
-    listActivity(db(), { teamId: team.id, projectId: project.id }, 12),
+    listProjectActivityPage(db(), { teamId: team.id, projectId: project.id }, 1, 12),
   ]);
   return {
     team: { id: team.id, name: team.name },
@@ -83,7 +83,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     deleted: deleted.map((e) => ({ id: e.id, name: e.name, deletedAt: e.deletedAt! })),
     profiles,
     sprites,
-    activity,
+    activity: activity.items,
+    activityTotal: activity.total,
   };
 }
 
@@ -246,7 +247,7 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
 }
 
 export default function ProjectPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { team, project, role, effects, deleted, profiles, sprites, activity } = loaderData;
+  const { team, project, role, effects, deleted, profiles, sprites, activity, activityTotal } = loaderData;
   const canEdit = hasRole(role, "editor");
   const archived = project.archivedAt !== null;
   const detailsCheck = useFormCheck(projectForm);
@@ -400,12 +401,21 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
         </p>
         <ProfilesTable
           profiles={profiles}
+          teamId={team.id}
           emptyHint="The team has no target profiles yet; effects keep their own settings."
           countLabel="Used here"
         />
       </Panel>
       <SpriteLibrary projectId={project.id} sprites={sprites} canEdit={canEdit && !archived} />
-      <Panel title="Recent activity" id="activity">
+      <Panel
+        title="Recent activity"
+        id="activity"
+        actions={
+          <Link to={`/projects/${project.id}/activity`} className="text-sm text-glass-300 hover:underline">
+            All activity (<span className="num">{activityTotal}</span>)
+          </Link>
+        }
+      >
         <ActivityList items={activity} />
       </Panel>
     </div>

@@ -112,8 +112,8 @@ export async function seedDemo(db: Db): Promise<{ created: boolean; teamId: stri
       halfTurn: "flip",
       edges: "wrap",
       columnGroup: 1,
-      dialects: ["ca65"],
-      labelPrefix: "rose_",
+      dialects: ["6502", "bin"],
+      labelPrefix: "rose",
     });
     const stormLevel = await makeTargetProfile(tx, {
       team,
@@ -128,8 +128,8 @@ export async function seedDemo(db: Db): Promise<{ created: boolean; teamId: stri
       halfTurn: "flip",
       edges: "wrap",
       columnGroup: 16,
-      dialects: ["c99"],
-      labelPrefix: "storm_",
+      dialects: ["c", "bin"],
+      labelPrefix: "storm",
     });
     const project = await makeProject(tx, { team, actor: owner, ...DEMO_PROJECT });
     const rose = await makeSprite(tx, { project, actor: editor, name: "compass-rose.png", image: compassRose(ROSE_SIZE) });

@@ -91,7 +91,7 @@ describe("docs/api.md", () => {
     const owner = await makeUser(db);
     const team = await makeTeam(db, { owner, name: `Docs quay ${owner.login.slice(-6)}` });
     const project = await makeProject(db, { team, actor: owner, name: "Docs project" });
-    const profile = await makeTargetProfile(db, { team, labelPrefix: "doc_", dialects: ["ca65"] });
+    const profile = await makeTargetProfile(db, { team, labelPrefix: "doc", dialects: ["6502"] });
     const effect = await makeEffect(db, {
       project,
       actor: owner,
@@ -131,7 +131,7 @@ describe("docs/api.md", () => {
         "beacon.effect.json",
         "beacon.h",
       ]);
-      expect(Object.keys(unzipSync(readFileSync(path.join(dir, "quay.zip"))))).toContain("doc/doc.c");
+      expect(Object.keys(unzipSync(readFileSync(path.join(dir, "quay.zip"))))).toContain("doc_beacon/doc_beacon.c");
 
       // The conditional download, run again, gets 304: curl keeps the zip and says so with the status.
       const conditional = list.find((e) => e.command.includes("--etag-compare"))!;

@@ -34,7 +34,7 @@ beforeAll(async () => {
   const team = await makeTeam(db, { owner, members: [{ user: viewerUser, role: "viewer" }] });
   await makeTeam(db, { owner: outsiderUser });
   project = await makeProject(db, { team, actor: owner, name: "Export quay" });
-  const quay = await makeTargetProfile(db, { team, labelPrefix: "quay_", dialects: ["ca65", "c99"] });
+  const quay = await makeTargetProfile(db, { team, labelPrefix: "quay", dialects: ["6502", "c"] });
   beacon = await makeEffect(db, { project, actor: owner, name: "Beacon", document: DOC, targetProfile: quay });
   await makeEffect(db, { project, actor: owner, name: "Anchor", document: { ...DOC, angles: { list: [0, 45] } } });
   gone = await makeEffect(db, { project, actor: owner, name: "Gone", document: DOC });
@@ -51,14 +51,21 @@ describe("an effect's export download", () => {
     const res = await viewer.get(`/effects/${beacon.id}/export.zip`);
     expect(res.status).toBe(200);
     expect(res.headers.get("content-type")).toBe("application/zip");
-    expect(res.headers.get("content-disposition")).toBe('attachment; filename="quay.zip"');
+    expect(res.headers.get("content-disposition")).toBe('attachment; filename="quay_beacon.zip"');
     const etag = res.headers.get("etag");
     expect(etag).toMatch(/^"[A-Za-z0-9_-]{32}"$/);
     const body = Buffer.from(await res.arrayBuffer());
-    // The bytes are core's bundle of the stored document with the profile's defaults (label quay, ca65 and C).
-    const expected = exportBundle(parseEffect(DOC), { name: "Beacon", label: "quay", outputs: ["c", "6502"] });
+    // The bytes are core's bundle of the stored document with the profile's defaults (its prefix before the effect's
+    // own label, 6502 and C).
+    const expected = exportBundle(parseEffect(DOC), { name: "Beacon", label: "quay_beacon", outputs: ["c", "6502"] });
     expect(body.equals(Buffer.from(expected.zip))).toBe(true);
-    expect(Object.keys(unzipSync(body)).sort()).toEqual(["README.txt", "quay.6502.s", "quay.c", "quay.effect.json", "quay.h"]);
+    expect(Object.keys(unzipSync(body)).sort()).toEqual([
+      "README.txt",
+      "quay_beacon.6502.s",
+      "quay_beacon.c",
+      "quay_beacon.effect.json",
+      "quay_beacon.h",
+    ]);
 
     const again = await viewer.get(`/effects/${beacon.id}/export.zip`, { headers: { "If-None-Match": etag! } });
     expect(again.status).toBe(304);
@@ -113,7 +120,7 @@ describe("a project's export download", () => {
     expect(res.headers.get("content-disposition")).toBe('attachment; filename="export-quay.zip"');
     const names = Object.keys(unzipSync(Buffer.from(await res.arrayBuffer())));
     expect(names).toContain("README.txt");
-    expect(names).toContain("quay/quay.6502.s");
+    expect(names).toContain("quay_beacon/quay_beacon.6502.s");
     expect(names).toContain("anchor/anchor.c");
     expect(names.some((n) => n.startsWith("gone/"))).toBe(false);
     const again = await viewer.get(`/projects/${project.id}/export.zip`, { headers: { "If-None-Match": res.headers.get("etag")! } });

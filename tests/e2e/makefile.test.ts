@@ -44,7 +44,7 @@ describe("docs/examples/Makefile", () => {
     const team = await makeTeam(db, { owner });
     const project = await makeProject(db, { team, actor: owner });
     // The profile's own label and dialects are overridden by the Makefile's --label fx --outputs c,6502.
-    const profile = await makeTargetProfile(db, { team, labelPrefix: "quay_", dialects: ["z80"] });
+    const profile = await makeTargetProfile(db, { team, labelPrefix: "quay", dialects: ["z80"] });
     const first = { canvas: { width: 32, height: 24 }, pivot: { x: 16, y: 12 }, angles: { sweep: { from: 0, to: 360, frames: 16 } } };
     const effect = await makeEffect(db, { project, actor: owner, document: first, targetProfile: profile });
     const token = (await createApiToken(db, { userId: owner.id, name: "make", scope: "read", expiresAt: null })).token;

@@ -83,7 +83,7 @@ beforeAll(async () => {
   const team = await makeTeam(db, { owner });
   const theirs = await makeTeam(db, { owner: stranger });
   project = await makeProject(db, { team, actor: owner, name: "Pull quay" });
-  const profile = await makeTargetProfile(db, { team, labelPrefix: "quay_", dialects: ["ca65", "c99"] });
+  const profile = await makeTargetProfile(db, { team, labelPrefix: "quay", dialects: ["6502", "c"] });
   effect = await makeEffect(db, { project, actor: owner, name: "Beacon", document: DOC, targetProfile: profile });
   lopsided = await makeEffect(db, { project, actor: owner, name: "Lopsided", document: { ...DOC, pivot: { x: 3, y: 2.5 } } });
   foreign = await makeEffect(db, { project: await makeProject(db, { team: theirs, actor: stranger }), actor: stranger, document: DOC });
@@ -105,8 +105,15 @@ describe("skewsmith pull", () => {
     const first = await pull(["--server", appUrl(), "--effect", effect.id, "--out", out]);
     expect(first.code, first.stderr).toBe(0);
     expect(first.stderr).toMatch(/^skewsmith pull: 5 files, \d+ bytes, from http:\/\/127\.0\.0\.1:\d+ into /);
-    // The profile's label and dialects: the same files as the app's own download of the effect.
-    expect(readdirSync(out).sort()).toEqual([".skewsmith-pull.json", "README.txt", "quay.6502.s", "quay.c", "quay.effect.json", "quay.h"]);
+    // The profile's label prefix before the effect's own label, and its dialects: the same files as the app's own download.
+    expect(readdirSync(out).sort()).toEqual([
+      ".skewsmith-pull.json",
+      "README.txt",
+      "quay_beacon.6502.s",
+      "quay_beacon.c",
+      "quay_beacon.effect.json",
+      "quay_beacon.h",
+    ]);
     expect(first.stdout.trim().split("\n")).toHaveLength(5);
     const download = await fetch(`${appUrl()}/api/v1/effects/${effect.id}/export.zip`, { headers: { Authorization: `Bearer ${token}` } });
     const state = JSON.parse(readFileSync(path.join(out, ".skewsmith-pull.json"), "utf8"));
@@ -123,10 +130,10 @@ describe("skewsmith pull", () => {
     expect(snapshot(out)).toEqual(before);
 
     // A file removed by hand: the pull notices and downloads the whole bundle again instead of trusting the ETag.
-    rmSync(path.join(out, "quay.h"));
+    rmSync(path.join(out, "quay_beacon.h"));
     const repaired = await pull(["--server", appUrl(), "--effect", effect.id, "--out", out]);
     expect(repaired.stderr).toContain("5 files");
-    expect(readFileSync(path.join(out, "quay.h"), "utf8")).toContain("quay_FRAMES 6");
+    expect(readFileSync(path.join(out, "quay_beacon.h"), "utf8")).toContain("quay_beacon_FRAMES 6");
 
     await saveEffectDocument(db, {
       effectId: effect.id,
@@ -137,7 +144,7 @@ describe("skewsmith pull", () => {
     const changed = await pull(["--server", appUrl(), "--effect", effect.id, "--out", out]);
     expect(changed.code).toBe(0);
     expect(changed.stderr).toContain("5 files");
-    expect(readFileSync(path.join(out, "quay.h"), "utf8")).toContain("quay_FRAMES 2");
+    expect(readFileSync(path.join(out, "quay_beacon.h"), "utf8")).toContain("quay_beacon_FRAMES 2");
 
     // Other options are another bundle: downloaded, not "up to date".
     const options = await pull(["--server", appUrl(), "--effect", effect.id, "--out", out, "--outputs", "json", "--label", "lamp"]);
@@ -153,8 +160,13 @@ describe("skewsmith pull", () => {
       SKEWSMITH_URL: appUrl(),
     });
     expect(run.code, run.stderr).toBe(0);
-    expect(readdirSync(out).sort()).toEqual([".skewsmith-pull.json", "README.txt", "lopsided", "quay"]);
-    expect(readdirSync(path.join(out, "quay")).sort()).toEqual(["README.txt", "quay.c", "quay.effect.json", "quay.h"]);
+    expect(readdirSync(out).sort()).toEqual([".skewsmith-pull.json", "README.txt", "lopsided", "quay_beacon"]);
+    expect(readdirSync(path.join(out, "quay_beacon")).sort()).toEqual([
+      "README.txt",
+      "quay_beacon.c",
+      "quay_beacon.effect.json",
+      "quay_beacon.h",
+    ]);
     const again = await pull(["--token", token, "--project", project.id, "--out", out, "--outputs", "c"], {
       SKEWSMITH_TOKEN: "",
       SKEWSMITH_URL: appUrl(),

@@ -41,7 +41,7 @@ describe("a viewer", () => {
     await screenshot(page, "project-viewer");
 
     await page.goto(`/teams/${demo.teamId}`);
-    await page.getByTestId("members-table").waitFor();
+    await page.getByTestId("members-summary").waitFor();
     expect(await page.getByRole("combobox").count()).toBe(0);
     for (const name of ["Create project", "Change", "Remove", "Save name"])
       expect(await page.getByRole("button", { name }).count(), name).toBe(0);
@@ -63,7 +63,7 @@ describe("a viewer", () => {
     const archive = await page.request.post(`/projects/${demo.projectId}`, { form: { intent: "archive-project" } });
     expect(archive.status()).toBe(403);
     const editor = await userByLogin(demoPerson("editor").login);
-    const promote = await page.request.post(`/teams/${demo.teamId}`, {
+    const promote = await page.request.post(`/teams/${demo.teamId}/members`, {
       form: { intent: "change-role", userId: editor.id, role: "viewer" },
     });
     expect(promote.status()).toBe(403);
@@ -81,11 +81,13 @@ describe("an editor", () => {
     await page.goto(`/projects/${demo.projectId}`);
     await expect.poll(() => page.getByRole("button", { name: "Create effect" }).count()).toBe(1);
     await page.goto(`/teams/${demo.teamId}`);
-    await page.getByTestId("members-table").waitFor();
+    await page.getByTestId("members-summary").waitFor();
     expect(await page.getByRole("combobox").count()).toBe(0);
     expect(await page.getByRole("button", { name: "Create project" }).count()).toBe(1);
     const viewer = await userByLogin(demoPerson("viewer").login);
-    const attempt = await page.request.post(`/teams/${demo.teamId}`, { form: { intent: "change-role", userId: viewer.id, role: "owner" } });
+    const attempt = await page.request.post(`/teams/${demo.teamId}/members`, {
+      form: { intent: "change-role", userId: viewer.id, role: "owner" },
+    });
     expect(attempt.status()).toBe(403);
     expect(await attempt.text()).toContain("Only owners can do this; you are an editor in this team.");
     expect(await getRole(db, demo.teamId, viewer.id)).toBe("viewer");
@@ -101,7 +103,7 @@ describe("an owner", () => {
     const team = await makeTeam(db, { owner, name: `Pier Nine ${Date.now().toString(36)}`, members: [{ user: member, role: "viewer" }] });
 
     const { context, page } = await signIn(browser, owner.login);
-    await page.goto(`/teams/${team.id}`);
+    await page.goto(`/teams/${team.id}/members`);
     const memberRow = page.getByTestId(`member-${member.login}`);
     await memberRow.getByRole("combobox").selectOption("editor");
     await memberRow.getByRole("button", { name: "Change" }).click();
@@ -116,9 +118,18 @@ describe("an owner", () => {
       .poll(() => ownRow.getByRole("alert").textContent())
       .toBe("A team needs at least one owner: make someone else an owner first.");
     expect(await getRole(db, team.id, owner.id)).toBe("owner");
+    // The refused change puts the menu back to the role the owner really has.
+    await expect.poll(() => ownRow.getByRole("combobox").inputValue()).toBe("owner");
     await screenshot(page, "team-owner");
 
-    await page.getByTestId(`member-${member.login}`).getByRole("button", { name: "Remove" }).click();
+    await page
+      .getByTestId(`member-${member.login}`)
+      .getByRole("link", { name: /^Remove / })
+      .click();
+    await page
+      .getByRole("dialog")
+      .getByRole("button", { name: /^Remove / })
+      .click();
     await expect.poll(() => page.getByTestId(`member-${member.login}`).count()).toBe(0);
     expect(await getRole(db, team.id, member.id)).toBeNull();
     await context.close();

@@ -36,10 +36,12 @@ describe("a person with no team", () => {
     await page.waitForURL(/\/teams\/[0-9a-f-]{36}$/);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe(teamName);
     await expect.poll(() => page.getByText("No projects yet").count()).toBe(1);
-    await expect.poll(() => page.getByTestId("members-table").textContent()).toContain("owner");
+    await expect.poll(() => page.getByTestId("members-summary").textContent()).toContain("owner");
 
     // A shared target profile: core refuses a fraction as wide as the word, then the fixed one is listed.
-    await page.getByText("New target profile").click();
+    const teamUrl = page.url();
+    await page.getByRole("link", { name: "Manage target profiles" }).click();
+    await page.getByRole("link", { name: "New target profile" }).click();
     await page.getByLabel("Profile name").fill("Wide screen");
     await page.getByLabel("Canvas width").fill("256");
     await page.getByLabel("Canvas height").fill("224");
@@ -51,6 +53,8 @@ describe("a person with no team", () => {
       .toBe("Fraction bits: 8 is not allowed; allowed a whole number from 0 to 7 (below bits = 8)");
     await page.getByLabel("Fraction bits").fill("7");
     await page.getByRole("button", { name: "Create target profile" }).click();
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Wide screen");
+    await page.goto(teamUrl);
     await expect.poll(() => page.getByTestId("profiles-table").textContent()).toMatch(/Wide screen.*256 × 224.*Q1\.7/);
 
     // Projects: validation message, then a real one.
