@@ -29,7 +29,8 @@ export type { PixelData, Plane, FrameShifts, RenderGeometry, PassNumber } from "
 export { renderImage } from "./renderImage.ts";
 export { imagePlane, imageFromPlane, opaqueMask, placeImage } from "./image.ts";
 export type { Image, IndexedImage, RgbaImage, Rgba } from "./image.ts";
-export { decodePng, encodePng, PngError } from "./png.ts";
+export { decodePng, encodePng, pngHeader, PngError } from "./png.ts";
+export type { PngHeader } from "./png.ts";
 export { canvasFit } from "./canvasFit.ts";
 export type { CanvasFit, CanvasFitOptions, Sides } from "./canvasFit.ts";
 

@@ -51,6 +51,7 @@ const CORE_VALUES = [
   "placeImage",
   "decodePng",
   "encodePng",
+  "pngHeader",
   "PngError",
   "canvasFit",
 ];
@@ -129,6 +130,7 @@ const CORE_TYPES = [
   "IndexedImage",
   "RgbaImage",
   "Rgba",
+  "PngHeader",
   "CanvasFit",
   "CanvasFitOptions",
   "Sides",

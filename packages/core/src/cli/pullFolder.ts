@@ -6,7 +6,7 @@
 import { createHash, randomBytes } from "node:crypto";
 import { mkdir, readdir, readFile, rename, rm, stat, writeFile } from "node:fs/promises";
 import { basename, dirname, join } from "node:path";
-import { unzip, type Unzipped } from "fflate";
+import type { Unzipped } from "fflate";
 
 /** The state file's name inside the pulled folder. */
 export const PULL_STATE_FILE = ".skewsmith-pull.json";
@@ -60,6 +60,8 @@ export async function unpackBundle(zip: Uint8Array): Promise<Map<string, Uint8Ar
   let total = 0;
   let refusal: string | null = null;
   const declared = new Map<string, number>();
+  // Loaded here, not with the module, so that `skewsmith --help` does not load fflate (commands.ts imports every command).
+  const { unzip } = await import("fflate");
   const files = await new Promise<Unzipped>((resolve, reject) => {
     try {
       unzip(

@@ -14,8 +14,9 @@
  *
  * The worker module is found beside this one, with this module's extension: `./nodeWorker.ts` from source (the worker
  * then registers tsx's loader first, as the calling thread runs under it), `./nodeWorker.js` in a build. A build that
- * compiles file by file keeps that; a bundle must emit `nodeWorker.js` as an entry of its own beside the bundle file
- * that holds this code, else there are no workers (and no error: the calling thread measures everything).
+ * compiles file by file keeps that; a bundle emits `nodeWorker.mjs` as an entry of its own beside the file that holds
+ * this code or one folder up from it (scripts/build.mjs: dist/nodeWorker.mjs, this code in dist/ or dist/chunks/),
+ * else there are no workers (and no error: the calling thread measures everything).
  */
 import type * as NodeFs from "node:fs";
 import type * as NodeModule from "node:module";
@@ -106,8 +107,11 @@ function workerEntry(b: Builtins): WorkerEntry | null {
   const here = import.meta.url;
   const ext = /\.[cm]?[jt]s$/.exec(new URL(here).pathname)?.[0];
   if (!here.startsWith("file:") || ext === undefined) return null;
-  const entry = new URL(`./nodeWorker${ext}`, here);
-  if (!b.fs.existsSync(b.url.fileURLToPath(entry))) return null;
+  // Beside this module (from source, or a build file by file), or one folder up (this module in a bundle's chunk folder).
+  const entry = [`./nodeWorker${ext}`, `../nodeWorker${ext}`]
+    .map((name) => new URL(name, here))
+    .find((url) => b.fs.existsSync(b.url.fileURLToPath(url)));
+  if (entry === undefined) return null;
   if (!ext.endsWith("ts")) return { entry: entry.href, loader: null };
   // Running from source: the worker needs the same TypeScript loader (tsx's ESM entry) that this thread runs under.
   const loader = resolveFrom(b, here, "tsx/esm/api");

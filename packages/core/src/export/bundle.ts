@@ -1,4 +1,3 @@
-import { zipSync } from "fflate";
 import { compileShifts, compileTables } from "../compileTables.ts";
 import type { Effect } from "../effect.ts";
 import { armSource } from "./arm.ts";
@@ -15,6 +14,7 @@ import { resolveExportOptions, type ExportOptions, type ExportOptionsInput } fro
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Source } from "./z80.ts";
+import { zipArchive } from "./zip.ts";
 
 /** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
 export interface BundleFile {
@@ -28,7 +28,10 @@ export interface ExportBundle {
   readonly label: string;
   readonly options: ExportOptions;
   readonly files: readonly BundleFile[];
-  /** A zip of every file (deflate), with a fixed date so the same effect and options give the same bytes. */
+  /**
+   * A zip of every file (deflate level 1, see export/zip.ts), with a fixed date so the same effect and options give the
+   * same bytes; made when first read, so a caller that only writes the files never pays for it.
+   */
   readonly zip: Uint8Array;
   readonly budget: BudgetReport;
 }
@@ -105,6 +108,14 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): 
     ...outputs,
     { name: effectFileName(layout.label), text: effectText, bytes: enc.encode(effectText) },
   ];
-  const zip = zipSync(Object.fromEntries(files.map((f) => [f.name, [f.bytes, { mtime: ZIP_DATE }]])), { level: 6, mtime: ZIP_DATE });
-  return { label: layout.label, options: resolved, files, zip, budget };
+  let zip: Uint8Array | undefined;
+  return {
+    label: layout.label,
+    options: resolved,
+    files,
+    get zip() {
+      return (zip ??= zipArchive(files, ZIP_DATE));
+    },
+    budget,
+  };
 }
