@@ -12,7 +12,8 @@ const root = fileURLToPath(new URL("..", import.meta.url));
 rmSync(new URL("../dist", import.meta.url), { recursive: true, force: true }); // no chunk of an older build stays behind
 await build({
   absWorkingDir: root,
-  entryPoints: { cli: "src/cli/main.ts" },
+  // The diagnostics worker is an entry of its own: worker threads start it by file (src/diagnostics/nodePool.ts).
+  entryPoints: { cli: "src/cli/main.ts", nodeWorker: "src/diagnostics/nodeWorker.ts" },
   outdir: "dist",
   outExtension: { ".js": ".mjs" },
   chunkNames: "chunks/[name]-[hash]",
