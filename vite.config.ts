@@ -9,4 +9,6 @@ export default defineConfig(({ isSsrBuild }) => ({
   build: isSsrBuild ? { rollupOptions: { input: "./server/app.ts" } } : undefined,
   // The core package ships TypeScript source; bundle it into the server build instead of importing it at run time.
   ssr: { noExternal: ["@skewsmith/core"] },
+  // The bench's worker imports modules of its own (core, the engine), so it is built as an ES module.
+  worker: { format: "es" },
 }));

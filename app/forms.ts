@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { ROLES } from "./roles.ts";
+import { TOKEN_SCOPES } from "./tokens.ts";
 
 // zod compiles fast paths with `new Function` when it may; the pages' policy forbids eval, so it must not even try
 // (the attempt alone is reported as a policy violation in the browser).
@@ -13,11 +14,11 @@ export const NAME_MAX = 80;
 export const DESCRIPTION_MAX = 2000;
 
 /** C0 and C1 control characters and DEL: never allowed in a name. */
-const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
+export const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
 /** The same, but a description may hold tabs and line breaks. */
 const CONTROL_IN_TEXT = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/;
 /** Bidirectional embeddings, overrides, isolates and marks: they can make a name read as something else. */
-const BIDI = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
+export const BIDI = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
 
 /**
  * The one text rule for every name (teams, projects, effects, sprites, target profiles, tokens): trimmed, 1 to
@@ -69,6 +70,21 @@ export const memberForm = z.object({ userId: id("member") });
 
 export const restoreProjectForm = z.object({ projectId: id("project") });
 
+/** Longest e-mail address accepted, in characters (RFC 5321 §4.5.3.1.3 limits a path to 256 octets, brackets included; from memory). */
+export const EMAIL_MAX = 254;
+
+export const inviteForm = z.object({
+  email: z
+    .string({ error: "Give the e-mail address to invite." })
+    .trim()
+    .min(1, "Give the e-mail address to invite.")
+    .max(EMAIL_MAX, `An e-mail address has at most ${EMAIL_MAX} characters.`)
+    .pipe(z.email("That is not an e-mail address (say, name@example.com).")),
+  role: z.enum(ROLES, { error: `Choose a role: ${ROLES.join(", ")}.` }),
+});
+
+export const invitationForm = z.object({ invitationId: id("invitation") });
+
 export const projectForm = z.object({
   name: name("project"),
   description: descriptionText(),
@@ -90,6 +106,29 @@ export const createEffectForm = z.object({
 export const effectForm = z.object({ effectId: id("effect") });
 
 export const renameEffectForm = z.object({ effectId: id("effect"), name: name("effect"), version: versionField("effect") });
+
+/** How long a new API token may last, in days; null means until revoked. */
+export const TOKEN_LIFETIMES = [7, 30, 90, 365] as const;
+export const DEFAULT_TOKEN_LIFETIME = 90;
+
+/** A new API token: a name, a scope, and how many days it lasts (empty or "never": until revoked). Shared by the settings page and `POST /api/v1/tokens`. */
+export const createTokenForm = z.object({
+  name: name("token"),
+  scope: z.enum(TOKEN_SCOPES, { error: `Choose a scope: ${TOKEN_SCOPES.map((s) => `“${s}”`).join(" or ")}.` }),
+  expiresInDays: z
+    .preprocess(
+      (v) => (v === "" || v === "never" || v === null ? null : typeof v === "string" && /^\d+$/.test(v) ? Number(v) : v),
+      z
+        .number({ error: `Choose how long the token lasts: ${TOKEN_LIFETIMES.join(", ")} days, or never (until revoked).` })
+        .refine((d) => (TOKEN_LIFETIMES as readonly number[]).includes(d), {
+          error: `Choose how long the token lasts: ${TOKEN_LIFETIMES.join(", ")} days, or never (until revoked).`,
+        })
+        .nullable(),
+    )
+    .default(DEFAULT_TOKEN_LIFETIME),
+});
+
+export const revokeTokenForm = z.object({ tokenId: id("token") });
 
 /** Field messages of a failed parse, one string per field (the first problem found). */
 export type FieldErrors = Record<string, string>;

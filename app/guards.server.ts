@@ -108,43 +108,59 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     if (!hasRole(role, needed)) forbid(role, needed);
   }
 
-  async function requireTeamRole(
-    request: Request,
-    teamId: string | undefined,
-    needed: Role,
-  ): Promise<{ user: User; team: Team; role: Role }> {
-    const user = await requireUser(request);
+  // The checks below take a person already known (from a session or, in the API, a token), so every way in shares them.
+
+  async function teamAccess(user: User, teamId: string | undefined, needed: Role): Promise<{ user: User; team: Team; role: Role }> {
     if (!isUuid(teamId)) notFound();
     const [row] = await teamWithRole.execute({ id: teamId, userId: user.id });
     check(row?.role ?? null, needed);
     return { user, team: row.team, role: row.role };
   }
 
-  async function requireProjectRole(
-    request: Request,
+  async function projectAccess(
+    user: User,
     projectId: string | undefined,
     needed: Role,
   ): Promise<{ user: User; team: Team; project: Project; role: Role }> {
-    const user = await requireUser(request);
     if (!isUuid(projectId)) notFound();
     const [row] = await projectWithRole.execute({ id: projectId, userId: user.id });
     check(row?.role ?? null, needed);
     return { user, team: row.team, project: row.project, role: row.role };
   }
 
-  async function requireEffectRole(
-    request: Request,
+  async function effectAccess(
+    user: User,
     effectId: string | undefined,
     needed: Role,
   ): Promise<{ user: User; team: Team; project: Project; effect: EffectRow; role: Role }> {
-    const user = await requireUser(request);
     if (!isUuid(effectId)) notFound();
     const [row] = await effectWithRole.execute({ id: effectId, userId: user.id });
     check(row?.role ?? null, needed);
     return { user, team: row.team, project: row.project, effect: row.effect, role: row.role };
   }
 
-  return { getUserFromRequest, requireUser, requireTeamRole, requireProjectRole, requireEffectRole };
+  async function requireTeamRole(request: Request, teamId: string | undefined, needed: Role) {
+    return teamAccess(await requireUser(request), teamId, needed);
+  }
+
+  async function requireProjectRole(request: Request, projectId: string | undefined, needed: Role) {
+    return projectAccess(await requireUser(request), projectId, needed);
+  }
+
+  async function requireEffectRole(request: Request, effectId: string | undefined, needed: Role) {
+    return effectAccess(await requireUser(request), effectId, needed);
+  }
+
+  return {
+    getUserFromRequest,
+    requireUser,
+    requireTeamRole,
+    requireProjectRole,
+    requireEffectRole,
+    teamAccess,
+    projectAccess,
+    effectAccess,
+  };
 }
 
 type Guards = ReturnType<typeof createGuards>;
@@ -163,3 +179,9 @@ export const requireProjectRole: Guards["requireProjectRole"] = (request, projec
 /** A member of the effect's team with at least the role `needed`; otherwise 404 or 403. */
 export const requireEffectRole: Guards["requireEffectRole"] = (request, effectId, needed) =>
   app().requireEffectRole(request, effectId, needed);
+/** `user` as a member of the team with at least the role `needed`; otherwise 404 (not a member) or 403 (role too low). */
+export const teamAccess: Guards["teamAccess"] = (user, teamId, needed) => app().teamAccess(user, teamId, needed);
+/** `user` as a member of the project's team with at least the role `needed`; otherwise 404 or 403. */
+export const projectAccess: Guards["projectAccess"] = (user, projectId, needed) => app().projectAccess(user, projectId, needed);
+/** `user` as a member of the effect's team with at least the role `needed`; otherwise 404 or 403. */
+export const effectAccess: Guards["effectAccess"] = (user, effectId, needed) => app().effectAccess(user, effectId, needed);

@@ -9,9 +9,12 @@ export interface OutgoingMail {
   html?: string;
 }
 
+/** How long a send may wait on the mail server, in milliseconds: a page that sends mail answers within seconds even when the server hangs. */
+export const MAIL_TIMEOUTS = { connectionTimeout: 5_000, greetingTimeout: 5_000, socketTimeout: 10_000 } as const;
+
 /** A mail sender over SMTP at `url` (smtp://host:port); STARTTLS is used only when the server offers it. */
 export function createMailer(url: string, from: string) {
-  const transport: Transporter = nodemailer.createTransport(url);
+  const transport: Transporter = nodemailer.createTransport({ url, ...MAIL_TIMEOUTS });
   return {
     async send(mail: OutgoingMail): Promise<{ messageId: string }> {
       const info = await transport.sendMail({ from, ...mail });

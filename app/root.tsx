@@ -5,13 +5,33 @@ import "@fontsource/jetbrains-mono/400.css";
 import "@fontsource/jetbrains-mono/600.css";
 import "./app.css";
 
-import { Form, isRouteErrorResponse, Link, Links, Meta, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
+import {
+  Form,
+  isRouteErrorResponse,
+  Link,
+  Links,
+  Meta,
+  Outlet,
+  Scripts,
+  ScrollRestoration,
+  useMatches,
+  useRouteLoaderData,
+} from "react-router";
 import type { Route } from "./+types/root";
 import { buttonClass, Wordmark } from "./components/ui.tsx";
 import { env } from "./env.server.ts";
 import { getUserFromRequest } from "./guards.server.ts";
 import { useNonce } from "./nonce.ts";
 import { currentRequestId } from "./requestContext.server.ts";
+
+/** The title of a page without one of its own, and of the error pages. */
+export const meta: Route.MetaFunction = ({ error }) => [
+  {
+    title: error
+      ? `${isRouteErrorResponse(error) && error.status === 404 ? "Nothing here" : "Something went wrong"} · Skewsmith`
+      : "Skewsmith",
+  },
+];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
@@ -41,6 +61,9 @@ function Header() {
                 Mailbox
               </Link>
             ) : null}
+            <Link to="/settings" className="text-ink-400 hover:text-glass-300">
+              Settings
+            </Link>
             <span className="text-ink-300" data-testid="signed-in-as">
               {user.name ?? user.login} <span className="num text-ink-500">@{user.login}</span>
             </span>
@@ -77,10 +100,12 @@ export function Layout({ children }: { children: React.ReactNode }) {
 }
 
 export default function App() {
+  // A route that needs the whole window (the effect bench) says so in its handle.
+  const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
   return (
     <>
       <Header />
-      <main className="mx-auto max-w-6xl px-6 py-8">
+      <main className={wide ? "mx-auto max-w-[1600px] px-4 py-6" : "mx-auto max-w-6xl px-6 py-8"}>
         <Outlet />
       </main>
     </>

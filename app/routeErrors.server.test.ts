@@ -108,6 +108,6 @@ describe("hardenBuild: every route's loader and action behind one catch-all", ()
     expect(file).toBeInstanceOf(Response);
     expect(file.status).toBe(404);
     expect(file.headers.get("Content-Type")).toMatch(/^application\/json/);
-    expect(await file.json()).toEqual({ error: { status: 404, message: "Nope", requestId: "req-1" } });
+    expect(await file.json()).toEqual({ error: { status: 404, message: "Nope", field: null, requestId: "req-1" } });
   });
 });

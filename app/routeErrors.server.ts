@@ -11,7 +11,8 @@
  *
  * The server applies it to the whole build (`hardenBuild`), so routes added later are covered without doing
  * anything. Pages show the answer in the root error boundary; resource routes (files, the API) answer JSON:
- * `{ "error": { "status", "message", "requestId", "field"? } }`.
+ * `{ "error": { "status", "message", "field", "requestId" } }` (field null unless one field is to blame), the
+ * shape of the JSON API's errors.
  */
 import { data, type UNSAFE_DataWithResponseInit as DataWithResponseInit, type ServerBuild } from "react-router";
 import { logError } from "./log.server.ts";
@@ -80,7 +81,7 @@ export function errorJson(error: DataWithResponseInit<unknown>): Response {
   headers.set("Content-Type", "application/json; charset=utf-8");
   const body =
     error.data && typeof error.data === "object" ? (error.data as Record<string, unknown>) : { message: String(error.data ?? "") };
-  return new Response(JSON.stringify({ error: { status, ...body } }), { status, headers });
+  return new Response(JSON.stringify({ error: { status, field: null, ...body } }), { status, headers });
 }
 
 type RouteHandler = (args: { request: Request; params: unknown; context: unknown }) => unknown;

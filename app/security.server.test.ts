@@ -38,6 +38,9 @@ describe("checkOrigin", () => {
     expect(checkOrigin(post({ Authorization: "Bearer sk_abc", Cookie: "s=1" }), APP).ok).toBe(false);
     expect(checkOrigin(post({ Authorization: "Basic dTpw" }), APP).ok).toBe(false);
     expect(checkOrigin(post({ Authorization: "Bearer " }), APP).ok).toBe(false);
+    // A browser page elsewhere that holds a token is still another site.
+    expect(checkOrigin(post({ Authorization: "Bearer sk_abc", Origin: "https://evil.example" }), APP).ok).toBe(false);
+    expect(checkOrigin(post({ Authorization: "Bearer sk_abc", Origin: APP }), APP).ok).toBe(true);
   });
 });
 

@@ -11,15 +11,19 @@ export type OriginVerdict = { ok: true; via: "safe-method" | "origin" | "fetch-m
 
 /**
  * Whether a request may change something: safe methods always; a request with a bearer token and no cookie (the
- * API and CLI, which a browser cannot be made to send with ambient credentials); otherwise only when the browser
+ * API and CLI, which a browser cannot be made to send with ambient credentials) unless it names another origin;
+ * otherwise only when the browser
  * says it comes from this app's own origin, by `Origin` or, when a browser sends no Origin, `Sec-Fetch-Site`.
  * A request with neither header is refused: it cannot be told apart from one another site made a browser send.
  */
 export function checkOrigin(request: Request, appOrigin: string): OriginVerdict {
   if (SAFE_METHODS.has(request.method.toUpperCase())) return { ok: true, via: "safe-method" };
   const headers = request.headers;
-  if (/^bearer\s+\S/i.test(headers.get("Authorization") ?? "") && !headers.has("Cookie")) return { ok: true, via: "bearer-token" };
   const origin = headers.get("Origin");
+  // A token is sent by a build or a script, never by a browser on its own; a browser page that sends one anyway
+  // still has to be ours.
+  if (/^bearer\s+\S/i.test(headers.get("Authorization") ?? "") && !headers.has("Cookie") && (origin === null || origin === appOrigin))
+    return { ok: true, via: "bearer-token" };
   if (origin !== null) {
     if (origin === appOrigin) return { ok: true, via: "origin" };
     return {

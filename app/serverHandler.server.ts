@@ -32,7 +32,7 @@ export function refusal(request: Request, status: number, message: string): Resp
   const wantsJson =
     url.pathname.endsWith(".data") || url.pathname.startsWith("/api/") || /application\/json/i.test(request.headers.get("Accept") ?? "");
   if (wantsJson)
-    return new Response(JSON.stringify({ error: { status, message, requestId } }), {
+    return new Response(JSON.stringify({ error: { status, message, field: null, requestId } }), {
       status,
       headers: { "Content-Type": "application/json; charset=utf-8" },
     });

@@ -12,7 +12,7 @@ import { createSprite } from "../app/models/sprites.server.ts";
 import { createTargetProfile } from "../app/models/targetProfiles.server.ts";
 import { addMember, createTeam } from "../app/models/teams.server.ts";
 import { upsertGitHubUser, type GitHubProfile } from "../app/models/users.server.ts";
-import { encodePng, type IndexedImage } from "@skewsmith/core";
+import { encodePng, type Image } from "@skewsmith/core";
 
 let counter = 0;
 /** A short token that differs between calls and between test runs. */
@@ -74,22 +74,39 @@ export async function makeProject(db: Tx, input: { team: Team; actor: User; name
   });
 }
 
-export async function makeSprite(db: Tx, input: { project: Project; actor: User; name?: string; image?: IndexedImage }): Promise<Sprite> {
+/** A sprite from a picture (indexed or RGBA; a 16-pixel compass rose by default) or from a PNG file's bytes. */
+export async function makeSprite(
+  db: Tx,
+  input: { project: Project; actor: User; name?: string; image?: Image; png?: Uint8Array },
+): Promise<Sprite> {
   return createSprite(db, {
     projectId: input.project.id,
     name: input.name ?? `sprite-${unique()}.png`,
-    png: encodePng(input.image ?? compassRose(16)),
+    png: input.png ?? encodePng(input.image ?? compassRose(16)),
     actorId: input.actor.id,
   });
 }
 
 export async function makeEffect(
   db: Tx,
-  input: { project: Project; actor: User; name?: string; document?: unknown; targetProfile?: TargetProfile; sprite?: Sprite },
+  input: {
+    project: Project;
+    actor: User;
+    name?: string;
+    description?: string;
+    document?: unknown;
+    targetProfile?: TargetProfile;
+    sprite?: Sprite;
+    spriteX?: number | null;
+    spriteY?: number | null;
+  },
 ) {
   return createEffect(db, {
     projectId: input.project.id,
     name: input.name ?? `Effect ${unique()}`,
+    description: input.description,
+    spriteX: input.spriteX,
+    spriteY: input.spriteY,
     actorId: input.actor.id,
     document: input.document,
     targetProfileId: input.targetProfile?.id,

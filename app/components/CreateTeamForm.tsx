@@ -1,9 +1,13 @@
 import { Form } from "react-router";
 import { createTeamForm, NAME_MAX } from "../forms.ts";
+import { STARTER_PROFILES } from "../profiles/starters.ts";
 import { Button, Field, FormError, TextInput } from "./ui.tsx";
 import { useFormCheck } from "./useFormCheck.ts";
 
-/** Creates a team (the creator becomes its owner). Posts to /teams/new, which shows any field messages. */
+/**
+ * Creates a team (the creator becomes its owner), with any of the generic starting target profiles ticked.
+ * Posts to /teams/new, which shows any field messages.
+ */
 export function CreateTeamForm({ errors: serverErrors, defaultName }: { errors?: Record<string, string>; defaultName?: string }) {
   const check = useFormCheck(createTeamForm);
   const errors = check.errors ?? serverErrors;
@@ -27,6 +31,22 @@ export function CreateTeamForm({ errors: serverErrors, defaultName }: { errors?:
           Create team
         </Button>
       </div>
+      <details className="text-sm" open={errors?.starter !== undefined || undefined}>
+        <summary className="cursor-pointer text-ink-400 hover:text-ink-200">Start with target profiles (optional)</summary>
+        <fieldset className="mt-2 flex flex-col gap-1.5">
+          <legend className="mb-1 text-xs text-ink-400">
+            Generic presets by screen size and CPU family; their hardware values are from memory, so check them. You can add or change them
+            later.
+          </legend>
+          {STARTER_PROFILES.map((s) => (
+            <label key={s.key} className="flex items-center gap-2 text-ink-200">
+              <input type="checkbox" name="starter" value={s.key} className="accent-glass-400" />
+              <span className="num">{s.settings.name}</span>
+            </label>
+          ))}
+        </fieldset>
+        {errors?.starter ? <p className="mt-1 text-alert-300">{errors.starter}</p> : null}
+      </details>
     </Form>
   );
 }

@@ -1,3 +1,4 @@
+import { Link } from "react-router";
 import { qNotation } from "../effects/display.ts";
 import type { ProfileSettings } from "../effects/settings.ts";
 import { ColumnHeader, EmptyState, TABLE, TCELL, THEAD, TROW } from "./ui.tsx";
@@ -15,10 +16,13 @@ export function ProfilesTable({
   profiles,
   emptyHint,
   countLabel = "Effects",
+  teamId,
 }: {
   profiles: ProfileView[];
   emptyHint: string;
   countLabel?: string;
+  /** When given, each profile's name links to its page under this team. */
+  teamId?: string;
 }) {
   if (profiles.length === 0) return <EmptyState title="No target profiles">{emptyHint}</EmptyState>;
   return (
@@ -39,9 +43,15 @@ export function ProfilesTable({
         </thead>
         <tbody>
           {profiles.map((p) => (
-            <tr key={p.id} className={TROW}>
+            <tr key={p.id} className={TROW} data-testid={`profile-row-${p.name}`}>
               <td className={TCELL}>
-                <span className="font-medium text-ink-100">{p.name}</span>
+                {teamId ? (
+                  <Link to={`/teams/${teamId}/profiles/${p.id}`} className="font-medium text-ink-100 hover:text-glass-300">
+                    {p.name}
+                  </Link>
+                ) : (
+                  <span className="font-medium text-ink-100">{p.name}</span>
+                )}
                 {p.description ? <div className="max-w-72 text-xs text-ink-400">{p.description}</div> : null}
               </td>
               <td className={`${TCELL} num`}>

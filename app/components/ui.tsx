@@ -93,7 +93,7 @@ export function TextInput({ error, ...props }: ComponentProps<"input"> & { error
       id={props.name}
       {...props}
       aria-invalid={error ? true : undefined}
-      aria-describedby={error ? `${props.name}-error` : undefined}
+      aria-describedby={error ? `${props.id ?? props.name}-error` : undefined}
       className={cx(INPUT, props.className)}
     />
   );
@@ -106,7 +106,7 @@ export function TextArea({ error, ...props }: ComponentProps<"textarea"> & { err
       rows={3}
       {...props}
       aria-invalid={error ? true : undefined}
-      aria-describedby={error ? `${props.name}-error` : undefined}
+      aria-describedby={error ? `${props.id ?? props.name}-error` : undefined}
       className={cx(INPUT, props.className)}
     />
   );

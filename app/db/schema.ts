@@ -22,13 +22,12 @@ import {
 } from "drizzle-orm/pg-core";
 import type { Effect as EffectDocument } from "@skewsmith/core";
 import { ROLES, type Role } from "../roles.ts";
+import { TOKEN_SCOPES, type TokenScope } from "../tokens.ts";
 
 export { ROLES, type Role };
 export const roleEnum = pgEnum("role", ROLES);
 
-/** What an API token may do: read, or write (which includes read). */
-export const TOKEN_SCOPES = ["read", "write"] as const;
-export type TokenScope = (typeof TOKEN_SCOPES)[number];
+export { TOKEN_SCOPES, type TokenScope };
 export const tokenScopeEnum = pgEnum("token_scope", TOKEN_SCOPES);
 
 /** How a sprite's pixels are kept: palette indices, or 8-bit RGBA. */
@@ -140,7 +139,13 @@ export const invitations = pgTable(
     revokedAt: timestamp({ withTimezone: true }),
     ...timestamps,
   },
-  (t) => [index().on(t.teamId)],
+  (t) => [
+    index().on(t.teamId),
+    // One open (not accepted, not revoked) invitation per address and team; inviting again refreshes that one.
+    uniqueIndex("invitations_team_open_email_key")
+      .on(t.teamId, sql`lower(${t.email})`)
+      .where(sql`${t.acceptedAt} is null and ${t.revokedAt} is null`),
+  ],
 );
 
 export const projects = pgTable(
@@ -220,7 +225,7 @@ export const sprites = pgTable(
     version: version(),
     ...timestamps,
   },
-  (t) => [index().on(t.projectId)],
+  (t) => [index().on(t.projectId), uniqueIndex("sprites_project_name_key").on(t.projectId, sql`lower(${t.name})`)],
 );
 
 export const effects = pgTable(
@@ -229,6 +234,8 @@ export const effects = pgTable(
     id: uuidKey(),
     projectId: projectRef(),
     name: text().notNull(),
+    /** What the effect is for, and anything it shows on purpose (say, a canvas kept tight to teach something). */
+    description: text().notNull().default(""),
     /** The effect document (skewsmith.effect/1), stored only after core's parseEffect accepted it. */
     document: jsonb().$type<EffectDocument>().notNull(),
     /** Bumped on every change of the document; a save names the version it started from. */
@@ -260,6 +267,35 @@ export const effects = pgTable(
     check("effects_version_check", sql`${t.version} >= 1`),
   ],
 );
+
+/** One setting of a target profile that changed, as shown to people: "Canvas", "256 × 224" → "320 × 224". */
+export interface ProfileFieldChange {
+  field: string;
+  label: string;
+  from: string;
+  to: string;
+}
+
+/**
+ * The last change of a target profile that reached an effect (one row per effect, replaced by the next change):
+ * what changed, when and by whom, and the effect version it produced.
+ */
+export const effectProfileChanges = pgTable("effect_profile_changes", {
+  effectId: uuid()
+    .primaryKey()
+    .references(() => effects.id, { onDelete: "cascade" }),
+  targetProfileId: uuid().references(() => targetProfiles.id, { onDelete: "set null" }),
+  /** The profile's name at the time (the profile may be renamed or deleted later). */
+  profileName: text().notNull(),
+  /** The profile's version after the change. */
+  profileVersion: integer().notNull(),
+  /** The effect's version after the change (unchanged when only export settings changed). */
+  effectVersion: integer().notNull(),
+  changes: jsonb().$type<ProfileFieldChange[]>().notNull(),
+  changedBy: actorRef(),
+  changedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  ...timestamps,
+});
 
 export const apiTokens = pgTable(
   "api_tokens",
@@ -344,6 +380,11 @@ export const effectsRelations = relations(effects, ({ one }) => ({
   sprite: one(sprites, { fields: [effects.spriteId], references: [sprites.id] }),
 }));
 
+export const effectProfileChangesRelations = relations(effectProfileChanges, ({ one }) => ({
+  effect: one(effects, { fields: [effectProfileChanges.effectId], references: [effects.id] }),
+  targetProfile: one(targetProfiles, { fields: [effectProfileChanges.targetProfileId], references: [targetProfiles.id] }),
+}));
+
 export const apiTokensRelations = relations(apiTokens, ({ one }) => ({
   user: one(users, { fields: [apiTokens.userId], references: [users.id] }),
 }));
@@ -367,5 +408,6 @@ export type TargetProfile = typeof targetProfiles.$inferSelect;
 export type NewTargetProfile = typeof targetProfiles.$inferInsert;
 export type Sprite = typeof sprites.$inferSelect;
 export type EffectRow = typeof effects.$inferSelect;
+export type EffectProfileChange = typeof effectProfileChanges.$inferSelect;
 export type ApiToken = typeof apiTokens.$inferSelect;
 export type Activity = typeof activity.$inferSelect;

@@ -2,7 +2,23 @@
  * Effect settings for the app: the document a new effect starts from and target-profile settings.
  * Every document goes through core's parseEffect.
  */
-import { EDGES, EFFECT_FORMAT, HALF_TURNS, LIMITS, ROUNDINGS, parseEffect, type Effect } from "@skewsmith/core";
+import {
+  checkLabel,
+  EDGES,
+  EFFECT_FORMAT,
+  ELEMENT_CHOICES,
+  EXPORT_DEFAULTS,
+  EXPORT_OUTPUTS,
+  ExportOptionError,
+  HALF_TURNS,
+  LABEL_ALLOWED,
+  LIMITS,
+  REGISTER_BITS,
+  ROUNDINGS,
+  SIGNS,
+  parseEffect,
+  type Effect,
+} from "@skewsmith/core";
 import { z } from "zod";
 import { descriptionText, nameText } from "../forms.ts";
 import { NEW_EFFECT_CANVAS, NEW_EFFECT_FRAMES } from "./display.ts";
@@ -48,7 +64,33 @@ const whole = (min: number, max: number, what: string) =>
     .min(min, `${what} must be from ${min} to ${max}.`)
     .max(max, `${what} must be from ${min} to ${max}.`);
 
-/** A target profile as entered: names, and settings checked against core's ranges. */
+/** Longest label prefix of a target profile, in characters: it leaves room for the effect's own name in the label (see profileLabel). */
+export const PROFILE_LABEL_PREFIX_MAX = 12;
+
+/** The export options a target profile may set beyond its dialects and label prefix (each validated by core's resolveExportOptions). */
+export const profileExportOptions = z.strictObject(
+  {
+    sign: z.enum(SIGNS, { error: `Sign must be one of ${SIGNS.join(", ")}.` }).optional(),
+    registerBits: z
+      .number({ error: `Register width must be a whole number from ${REGISTER_BITS.min} to ${REGISTER_BITS.max}, or none.` })
+      .int(`Register width must be a whole number from ${REGISTER_BITS.min} to ${REGISTER_BITS.max}, or none.`)
+      .min(REGISTER_BITS.min, `Register width must be from ${REGISTER_BITS.min} to ${REGISTER_BITS.max} bits, or none.`)
+      .max(REGISTER_BITS.max, `Register width must be from ${REGISTER_BITS.min} to ${REGISTER_BITS.max} bits, or none.`)
+      .nullable()
+      .optional(),
+    element: z.enum(ELEMENT_CHOICES, { error: `Element type must be one of ${ELEMENT_CHOICES.join(", ")}.` }).optional(),
+    split: z.boolean({ error: "Split must be true or false." }).optional(),
+    half: z.boolean({ error: "Half tables must be true or false." }).optional(),
+    dedupe: z.boolean({ error: "Dedupe must be true or false." }).optional(),
+  },
+  {
+    error: (issue) =>
+      issue.code === "unrecognized_keys" ? `Unknown export option ${issue.keys.join(", ")}.` : "Export options must be an object.",
+  },
+);
+export type ProfileExportOptions = z.output<typeof profileExportOptions>;
+
+/** A target profile as entered: names, settings checked against core's ranges, export dialects (core's output names), label prefix and options. */
 export const targetProfileInput = z.object({
   name: nameText("target profile"),
   description: descriptionText(),
@@ -62,12 +104,34 @@ export const targetProfileInput = z.object({
   halfTurn: z.enum(HALF_TURNS, { error: `Half-turn must be one of ${HALF_TURNS.join(", ")}.` }),
   edges: z.enum(EDGES, { error: `Edges must be one of ${EDGES.join(", ")}.` }),
   columnGroup: whole(1, LIMITS.canvas.max, "Column group"),
-  dialects: z.array(nameText("export dialect", 32)).max(16, "Choose at most 16 export dialects.").default([]),
+  /** Outputs the profile's effects export by default, in core's order; empty means every output. */
+  dialects: z
+    .array(z.enum(EXPORT_OUTPUTS, { error: `Export dialects are some of ${EXPORT_OUTPUTS.join(", ")}.` }), {
+      error: `Export dialects are some of ${EXPORT_OUTPUTS.join(", ")}.`,
+    })
+    .default([])
+    .transform((chosen) => EXPORT_OUTPUTS.filter((o) => chosen.includes(o))),
   labelPrefix: z
-    .string()
+    .string({ error: "The label prefix must be text." })
     .trim()
-    .max(32)
-    .regex(/^[A-Za-z_][A-Za-z0-9_]*$|^$/, "A label prefix is letters, digits and underscores, not starting with a digit.")
-    .default(""),
+    .max(PROFILE_LABEL_PREFIX_MAX, `Keep the label prefix to ${PROFILE_LABEL_PREFIX_MAX} characters or fewer.`)
+    .default("")
+    .superRefine((value, ctx) => {
+      if (value === "") return;
+      try {
+        checkLabel(value);
+      } catch (error) {
+        const reason = error instanceof ExportOptionError && error.reason ? ` (${error.reason})` : "";
+        ctx.addIssue({ code: "custom", message: `The label prefix must be ${LABEL_ALLOWED}${reason}.` });
+      }
+    }),
+  /** Kept without the options that equal core's defaults, so "nothing chosen" has one form. */
+  exportOptions: profileExportOptions.default({}).transform((options) => {
+    const kept: ProfileExportOptions = {};
+    for (const [key, value] of Object.entries(options) as [keyof ProfileExportOptions, unknown][])
+      if (value !== undefined && value !== (EXPORT_DEFAULTS as Record<string, unknown>)[key])
+        (kept as Record<string, unknown>)[key] = value;
+    return kept;
+  }),
 });
 export type TargetProfileInput = z.output<typeof targetProfileInput>;

@@ -1,4 +1,5 @@
-import { checkEffect, type Effect } from "@skewsmith/core";
+import { checkEffect, EffectError, type Effect } from "@skewsmith/core";
+import { applyProfileToDocument } from "../profiles/apply.ts";
 import { and, asc, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
 import { effects, projects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
@@ -77,8 +78,12 @@ export async function createEffect(
     projectId: string;
     name: string;
     actorId: string | null;
+    description?: string;
     targetProfileId?: string | null;
     spriteId?: string | null;
+    /** Where the sprite's top-left pixel sits in the canvas; null or absent centres it. */
+    spriteX?: number | null;
+    spriteY?: number | null;
     document?: unknown;
   },
 ): Promise<EffectRow> {
@@ -90,7 +95,9 @@ export async function createEffect(
         [profile] = await tx
           .select()
           .from(targetProfiles)
-          .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)));
+          .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)))
+          // Held until commit, so a profile change cannot slip in between reading its settings and following it.
+          .for("share");
         if (!profile) throw new DomainError("That target profile does not belong to this team.", { field: "targetProfileId" });
       }
       if (input.spriteId) {
@@ -107,9 +114,12 @@ export async function createEffect(
         .values({
           projectId: project.id,
           name: input.name,
+          description: input.description ?? "",
           document,
           targetProfileId: profile?.id ?? null,
           spriteId: input.spriteId ?? null,
+          spriteX: input.spriteX ?? null,
+          spriteY: input.spriteY ?? null,
           createdBy: input.actorId,
           updatedBy: input.actorId,
         })
@@ -169,9 +179,14 @@ export async function duplicateEffect(db: Tx, input: { effectId: string; actorId
       .values({
         projectId: project.id,
         name,
+        description: source.description,
         document: validDocument(source.document),
         targetProfileId: source.targetProfileId,
+        followsProfile: source.followsProfile,
         spriteId: source.spriteId,
+        spriteX: source.spriteX,
+        spriteY: source.spriteY,
+        keyPixels: source.keyPixels,
         createdBy: input.actorId,
         updatedBy: input.actorId,
       })
@@ -295,6 +310,7 @@ export async function saveEffectDocument(
 export interface EffectListItem {
   id: string;
   name: string;
+  description: string;
   version: number;
   document: Effect;
   targetProfileName: string | null;
@@ -310,6 +326,7 @@ export async function listEffects(db: Tx, projectId: string, options: { deleted?
     .select({
       id: effects.id,
       name: effects.name,
+      description: effects.description,
       version: effects.version,
       document: effects.document,
       targetProfileName: targetProfiles.name,
@@ -325,4 +342,126 @@ export async function listEffects(db: Tx, projectId: string, options: { deleted?
     .where(and(eq(effects.projectId, projectId), options.deleted ? isNotNull(effects.deletedAt) : isNull(effects.deletedAt)))
     .orderBy(...(options.deleted ? [desc(effects.deletedAt)] : [asc(sql`lower(${effects.name})`)]));
   return rows;
+}
+
+/** What the bench saves in one go: the document and everything stored beside it in the effects row. */
+export interface BenchSaveInput {
+  effectId: string;
+  /** The version the person's edits started from; a save after anyone else's is refused. */
+  expectedVersion: number;
+  actorId: string;
+  document: unknown;
+  targetProfileId: string | null;
+  followsProfile: boolean;
+  spriteId: string | null;
+  spriteX: number | null;
+  spriteY: number | null;
+  keyPixels: [number, number][];
+}
+
+/** The bench's save: done (with the parts that changed), or refused because someone saved first (with their row). */
+export type BenchSaveResult = { ok: true; effect: EffectRow; changed: string[] } | { ok: false; current: EffectRow };
+
+/** The parts of an effect a save changes, in words, for the activity list. */
+function benchChanges(
+  before: EffectRow,
+  after: Omit<BenchSaveInput, "document" | "effectId" | "expectedVersion" | "actorId"> & { document: Effect },
+) {
+  const a = validDocument(before.document);
+  const b = after.document;
+  const same = (x: unknown, y: unknown) => JSON.stringify(x) === JSON.stringify(y);
+  const parts: [boolean, string][] = [
+    [!same(a.canvas, b.canvas), "canvas"],
+    [!same(a.pivot, b.pivot), "pivot"],
+    [!same(a.angles, b.angles), "angle track"],
+    [!same(a.fixedPoint, b.fixedPoint), "fixed point"],
+    [a.rounding !== b.rounding, "rounding"],
+    [a.halfTurn !== b.halfTurn, "half-turn rule"],
+    [a.edges !== b.edges, "edges"],
+    [a.columnGroup !== b.columnGroup, "column group"],
+    [
+      before.targetProfileId !== after.targetProfileId ||
+        (before.targetProfileId !== null && before.followsProfile) !== (after.targetProfileId !== null && after.followsProfile),
+      "target profile",
+    ],
+    [before.spriteId !== after.spriteId, "sprite"],
+    [before.spriteX !== after.spriteX || before.spriteY !== after.spriteY, "sprite placement"],
+    [!same([...before.keyPixels].map(String).sort(), [...after.keyPixels].map(String).sort()), "key pixels"],
+  ];
+  return parts.filter(([changed]) => changed).map(([, what]) => what);
+}
+
+/**
+ * Saves the bench in one transaction and one version: the document (validated by core; while the effect follows its
+ * target profile, the profile's settings win), the target profile and whether it is followed, the sprite, its
+ * placement and the key pixels. A save that names an old version is refused with the row as it is now, so nothing
+ * anyone saved is overwritten unseen; a save that changes nothing keeps the version.
+ */
+export async function saveEffectBench(db: Tx, input: BenchSaveInput): Promise<BenchSaveResult> {
+  return db.transaction(async (tx) => {
+    const { effect, project } = await changeableEffect(tx, input.effectId);
+    if (effect.version !== input.expectedVersion) return { ok: false, current: effect };
+    let valid = validDocument(input.document);
+    if (input.targetProfileId) {
+      const [profile] = await tx
+        .select()
+        .from(targetProfiles)
+        .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)));
+      if (!profile) throw new DomainError("That target profile does not belong to this team.", { field: "targetProfileId" });
+      if (input.followsProfile) {
+        try {
+          valid = applyProfileToDocument(valid, profile).document;
+        } catch (error) {
+          if (!(error instanceof EffectError)) throw error;
+          throw new DomainError(
+            `The profile's settings do not fit this effect: ${error.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`,
+            {
+              field: "targetProfileId",
+            },
+          );
+        }
+      }
+    }
+    let bounds = valid.canvas;
+    if (input.spriteId) {
+      const [sprite] = await tx
+        .select({ width: sprites.width, height: sprites.height })
+        .from(sprites)
+        .where(and(eq(sprites.id, input.spriteId), eq(sprites.projectId, project.id)));
+      if (!sprite) throw new DomainError("That sprite does not belong to this project.", { field: "spriteId" });
+      bounds = sprite;
+    }
+    const outside = input.keyPixels.find(([x, y]) => !(x >= 0 && y >= 0 && x < bounds.width && y < bounds.height));
+    if (outside)
+      throw new DomainError(
+        `Key pixel (${outside[0]}, ${outside[1]}) is outside the ${input.spriteId ? "sprite" : "canvas"}: allowed x 0 to ${bounds.width - 1}, y 0 to ${bounds.height - 1}.`,
+        { field: "keyPixels" },
+      );
+    const next = {
+      document: valid,
+      targetProfileId: input.targetProfileId,
+      followsProfile: input.targetProfileId !== null && input.followsProfile,
+      spriteId: input.spriteId,
+      spriteX: input.spriteX,
+      spriteY: input.spriteY,
+      keyPixels: input.keyPixels,
+    };
+    const changed = benchChanges(effect, next);
+    if (changed.length === 0) return { ok: true, effect, changed };
+    const [saved] = await tx
+      .update(effects)
+      .set({ ...next, version: sql`${effects.version} + 1`, updatedBy: input.actorId })
+      .where(and(eq(effects.id, effect.id), eq(effects.version, input.expectedVersion)))
+      .returning();
+    // Someone's save committed between our read and our write: theirs stands, ours is refused.
+    if (!saved) return { ok: false, current: await mustGet(tx, effect.id) };
+    await recordActivity(tx, {
+      teamId: project.teamId,
+      projectId: project.id,
+      userId: input.actorId,
+      action: "effect.saved",
+      summary: `saved version ${saved.version} of ${effect.name} (${changed.join(", ")})`,
+    });
+    return { ok: true, effect: saved, changed };
+  });
 }

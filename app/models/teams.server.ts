@@ -1,6 +1,6 @@
 import { and, asc, count, eq, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
-import { memberships, projects, teams, users, type Role, type Team } from "../db/schema.ts";
+import { memberships, projects, teams, users, type Role, type Team, type User } from "../db/schema.ts";
 import { recordActivity } from "./activity.server.ts";
 import { DomainError, isUniqueViolation, staleVersion } from "./errors.ts";
 import { displayName } from "./users.server.ts";
@@ -141,13 +141,23 @@ async function lockMembers(tx: Tx, teamId: string) {
     .for("update");
 }
 
-/** Changes a member's role; a team always keeps at least one owner. */
-export async function changeRole(db: Tx, input: { teamId: string; userId: string; role: Role; actorId: string }): Promise<void> {
-  await db.transaction(async (tx) => {
+/** A role change that happened: whose, from what, to what. */
+export interface RoleChange {
+  user: User;
+  from: Role;
+  to: Role;
+}
+
+/** Changes a member's role; a team always keeps at least one owner. Returns the change, or null when the role was already that. */
+export async function changeRole(
+  db: Tx,
+  input: { teamId: string; userId: string; role: Role; actorId: string },
+): Promise<RoleChange | null> {
+  return db.transaction(async (tx) => {
     const members = await lockMembers(tx, input.teamId);
     const member = members.find((m) => m.userId === input.userId);
     if (!member) throw new DomainError("That person is not a member of this team.", { status: 404 });
-    if (member.role === input.role) return;
+    if (member.role === input.role) return null;
     const owners = members.filter((m) => m.role === "owner").length;
     if (member.role === "owner" && owners === 1)
       throw new DomainError("A team needs at least one owner: make someone else an owner first.", { field: "role", status: 409 });
@@ -162,12 +172,16 @@ export async function changeRole(db: Tx, input: { teamId: string; userId: string
       action: "member.role_changed",
       summary: `made ${displayName(user)} ${input.role === "owner" ? "an owner" : `an ${input.role}`}`,
     });
+    return { user, from: member.role, to: input.role };
   });
 }
 
-/** Removes a member (or lets a member leave, when actor and member are the same); the last owner stays. */
-export async function removeMember(db: Tx, input: { teamId: string; userId: string; actorId: string }): Promise<void> {
-  await db.transaction(async (tx) => {
+/** Removes a member (or lets a member leave, when actor and member are the same); the last owner stays. Returns who left and their role. */
+export async function removeMember(
+  db: Tx,
+  input: { teamId: string; userId: string; actorId: string },
+): Promise<{ user: User; role: Role }> {
+  return db.transaction(async (tx) => {
     const members = await lockMembers(tx, input.teamId);
     const member = members.find((m) => m.userId === input.userId);
     if (!member) throw new DomainError("That person is not a member of this team.", { status: 404 });
@@ -187,6 +201,7 @@ export async function removeMember(db: Tx, input: { teamId: string; userId: stri
       action: input.userId === input.actorId ? "member.left" : "member.removed",
       summary: input.userId === input.actorId ? "left the team" : `removed ${displayName(user)} from the team`,
     });
+    return { user, role: member.role };
   });
 }
 

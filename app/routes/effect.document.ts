@@ -1,4 +1,5 @@
 import type { Route } from "./+types/effect.document";
+import { fileSlug } from "../files.ts";
 import { requireEffectRole } from "../guards.server.ts";
 import { contentDisposition } from "../http.server.ts";
 import { validDocument } from "../models/effects.server.ts";
@@ -6,11 +7,7 @@ import { validDocument } from "../models/effects.server.ts";
 /** The effect document as a file, for the CLI (`skewsmith tables effect.json`). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { effect } = await requireEffectRole(request, params.effectId, "viewer");
-  const slug =
-    effect.name
-      .toLowerCase()
-      .replace(/[^a-z0-9]+/g, "-")
-      .replace(/^-|-$/g, "") || "effect";
+  const slug = fileSlug(effect.name, "effect");
   return new Response(`${JSON.stringify(validDocument(effect.document), null, 2)}\n`, {
     headers: {
       "Content-Type": "application/json; charset=utf-8",

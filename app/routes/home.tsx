@@ -26,7 +26,7 @@ export default function Home({ loaderData }: Route.ComponentProps) {
         <Panel title="Start with a team" id="start">
           <p className="mb-4 text-sm text-ink-300">
             You are not in a team yet. Projects, effects, sprites and target profiles all belong to a team. Create one here, or ask an owner
-            of an existing team to add you.
+            of an existing team to invite you by e-mail.
           </p>
           <CreateTeamForm />
         </Panel>

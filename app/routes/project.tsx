@@ -6,7 +6,7 @@ import { ActivityList } from "../components/ActivityList.tsx";
 import { InlineCreateForm } from "../components/InlineCreateForm.tsx";
 import { ProfilesTable } from "../components/ProfilesTable.tsx";
 import { RestoreList } from "../components/RestoreList.tsx";
-import { SpriteFacts, SpriteImage } from "../components/Sprite.tsx";
+import { SpriteLibrary } from "../components/SpriteLibrary.tsx";
 import { useFormCheck } from "../components/useFormCheck.ts";
 import {
   ActionsHeader,
@@ -45,7 +45,7 @@ import {
 } from "../forms.ts";
 import { requireProjectRole } from "../guards.server.ts";
 import { formText, readForm } from "../http.server.ts";
-import { listActivity } from "../models/activity.server.ts";
+import { listProjectActivityPage } from "../models/activity.server.ts";
 import {
   createEffect,
   deleteEffect,
@@ -69,7 +69,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     listEffects(db(), project.id, { deleted: true }),
     listTargetProfiles(db(), team.id, project.id),
     listSprites(db(), project.id),
-    listActivity(db(), { teamId: team.id, projectId: project.id }, 12),
+    listProjectActivityPage(db(), { teamId: team.id, projectId: project.id }, 1, 12),
   ]);
   return {
     team: { id: team.id, name: team.name },
@@ -84,7 +84,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     deleted: deleted.map((e) => ({ id: e.id, name: e.name, deletedAt: e.deletedAt! })),
     profiles,
     sprites,
-    activity,
+    activity: activity.items,
+    activityTotal: activity.total,
   };
 }
 
@@ -185,20 +186,30 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
           {effect.name}
         </Link>
         <div className="text-xs text-ink-400">{effect.angles}</div>
+        {effect.description ? (
+          <p className="mt-0.5 line-clamp-2 max-w-sm text-xs text-ink-500" title={effect.description}>
+            {effect.description}
+          </p>
+        ) : null}
       </td>
-      <td className={`${TCELL} num`}>{effect.canvas}</td>
-      <td className={`${TCELL} num`}>{effect.fixedPoint}</td>
-      <td className={`${TCELL} text-ink-300`}>{effect.targetProfileName ?? <span className="text-ink-500">own settings</span>}</td>
-      <td className={`${TCELL} text-ink-300`}>{effect.spriteName ?? <span className="text-ink-500">none</span>}</td>
-      <td className={`${TCELL} num text-right`}>v{effect.version}</td>
       <td className={TCELL}>
-        <Timestamp value={effect.updatedAt} />
+        <div className="num whitespace-nowrap">{effect.canvas}</div>
+        <div className="num text-xs text-ink-400">{effect.fixedPoint}</div>
+      </td>
+      <td className={`${TCELL} min-w-40 text-ink-300`}>
+        <div>{effect.targetProfileName ?? <span className="text-ink-500">own settings</span>}</div>
+        <div className="text-xs">{effect.spriteName ?? <span className="text-ink-500">no sprite</span>}</div>
+      </td>
+      <td className={TCELL}>
+        <div className="whitespace-nowrap">
+          <span className="num text-ink-200">v{effect.version}</span> <Timestamp value={effect.updatedAt} />
+        </div>
         {effect.updatedByName ? <div className="text-xs text-ink-500">by {effect.updatedByName}</div> : null}
       </td>
       {canEdit ? (
         <td className={`${TCELL} text-right`}>
           <div className="flex items-center justify-end gap-1">
-            <details ref={renameBox} open={renaming || undefined}>
+            <details ref={renameBox} open={renaming || undefined} className="relative">
               <summary className="cursor-pointer list-none rounded-md px-2 py-1 text-xs text-ink-300 hover:bg-ink-800 hover:text-ink-100">
                 Rename
               </summary>
@@ -206,7 +217,7 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
                 method="post"
                 onSubmit={renameCheck.onSubmit}
                 noValidate
-                className="mt-1 flex w-60 flex-col gap-2 rounded-md border border-ink-600 bg-ink-850 p-3 text-left"
+                className="absolute right-0 top-full z-20 mt-1 flex w-64 flex-col gap-2 rounded-md border border-ink-600 bg-ink-850 p-3 text-left shadow-lg shadow-black/40"
               >
                 <input type="hidden" name="effectId" value={effect.id} />
                 <input type="hidden" name="version" value={effect.version} />
@@ -236,7 +247,7 @@ function EffectRow({ effect, canEdit }: { effect: LoaderData["effects"][number];
 }
 
 export default function ProjectPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { team, project, role, effects, deleted, profiles, sprites, activity } = loaderData;
+  const { team, project, role, effects, deleted, profiles, sprites, activity, activityTotal } = loaderData;
   const canEdit = hasRole(role, "editor");
   const archived = project.archivedAt !== null;
   const detailsCheck = useFormCheck(projectDetailsForm);
@@ -327,17 +338,15 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
               : "When an editor creates an effect, it shows up here."}
           </EmptyState>
         ) : (
-          <div className="overflow-x-auto">
+          // Scrolls sideways only on narrow screens; from 1024 px wide it fits, and the rename box may overhang it.
+          <div className="overflow-x-auto lg:overflow-visible">
             <table className={TABLE} data-testid="effects-table">
               <thead className={THEAD}>
                 <tr>
                   <ColumnHeader label="Effect" />
-                  <ColumnHeader label="Canvas" />
-                  <ColumnHeader label="Fixed point" />
-                  <ColumnHeader label="Target profile" />
-                  <ColumnHeader label="Sprite" />
-                  <ColumnHeader label="Version" align="right" />
-                  <ColumnHeader label="Last change" />
+                  <ColumnHeader label="Canvas, fixed point" />
+                  <ColumnHeader label="Target profile, sprite" />
+                  <ColumnHeader label="Version, last change" />
                   {canEdit && !archived ? <ActionsHeader /> : null}
                 </tr>
               </thead>
@@ -393,33 +402,23 @@ export default function ProjectPage({ loaderData, actionData }: Route.ComponentP
         </p>
         <ProfilesTable
           profiles={profiles}
+          teamId={team.id}
           emptyHint="The team has no target profiles yet; effects keep their own settings."
           countLabel="Used here"
         />
       </Panel>
-      <div className="grid gap-8 lg:grid-cols-[2fr_3fr]">
-        <Panel title="Sprites" id="sprites">
-          {sprites.length === 0 ? (
-            <EmptyState title="No sprites in this project">
-              Sprites are indexed (palette) PNG pictures that effects turn; the demo project shows two.
-            </EmptyState>
-          ) : (
-            <ul className="flex flex-col gap-3">
-              {sprites.map((s) => (
-                <li key={s.id} className="flex items-center gap-3">
-                  <SpriteImage sprite={s} width={48} height={48} className="h-12 w-12 object-contain" />
-                  <div className="text-sm">
-                    <SpriteFacts sprite={s} />
-                  </div>
-                </li>
-              ))}
-            </ul>
-          )}
-        </Panel>
-        <Panel title="Recent activity" id="activity">
-          <ActivityList items={activity} />
-        </Panel>
-      </div>
+      <SpriteLibrary projectId={project.id} sprites={sprites} canEdit={canEdit && !archived} />
+      <Panel
+        title="Recent activity"
+        id="activity"
+        actions={
+          <Link to={`/projects/${project.id}/activity`} className="text-sm text-glass-300 hover:underline">
+            All activity (<span className="num">{activityTotal}</span>)
+          </Link>
+        }
+      >
+        <ActivityList items={activity} />
+      </Panel>
     </div>
   );
 }

@@ -7,6 +7,7 @@ import { db } from "../db.server.ts";
 import { createTeamForm, parseForm } from "../forms.ts";
 import { requireUser } from "../guards.server.ts";
 import { readForm } from "../http.server.ts";
+import { addStarterProfiles } from "../models/targetProfiles.server.ts";
 import { createTeam } from "../models/teams.server.ts";
 
 export const meta: Route.MetaFunction = () => [{ title: "Create a team · Skewsmith" }];
@@ -16,15 +17,20 @@ export async function loader({ request }: Route.LoaderArgs) {
   return null;
 }
 
-/** Any signed-in person may create a team; they become its owner. */
+/** Any signed-in person may create a team; they become its owner. Ticked starting profiles are added in the same transaction. */
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
   const form = await readForm(request);
   const parsed = parseForm(createTeamForm, form);
   if (!parsed.ok) return invalid("create-team", parsed.errors);
+  const starters = form.getAll("starter").filter((k): k is string => typeof k === "string");
   let teamId = "";
   const result = await attempt("create-team", async () => {
-    teamId = (await createTeam(db(), { name: parsed.data.name, ownerId: user.id })).id;
+    teamId = await db().transaction(async (tx) => {
+      const team = await createTeam(tx, { name: parsed.data.name, ownerId: user.id });
+      if (starters.length > 0) await addStarterProfiles(tx, { teamId: team.id, keys: starters, actorId: user.id });
+      return team.id;
+    });
   });
   if (teamId) throw redirect(`/teams/${teamId}`);
   return result;

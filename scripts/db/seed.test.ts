@@ -1,4 +1,4 @@
-import { parseEffect } from "@skewsmith/core";
+import { canvasFit, compileTables, decodePng, opaqueMask, parseEffect } from "@skewsmith/core";
 import { count, eq } from "drizzle-orm";
 import type { PgTable } from "drizzle-orm/pg-core";
 import { describe, expect, it } from "vitest";
@@ -7,7 +7,9 @@ import { effects, memberships, projects, sprites, targetProfiles, teams, users }
 import { DEMO_TEAM } from "../../app/demo/people.ts";
 import { listEffects } from "../../app/models/effects.server.ts";
 import { listMembers } from "../../app/models/teams.server.ts";
-import { decodeIndexedPng } from "../../app/sprites/png.ts";
+import { placedSource } from "../../app/effects/frames.ts";
+import { spritePlacement } from "../../app/effects/placement.ts";
+import { getSpriteImage } from "../../app/models/sprites.server.ts";
 import { seedDemo } from "./seed.ts";
 
 describe("seedDemo", () => {
@@ -42,7 +44,8 @@ describe("seedDemo", () => {
       const byName = Object.fromEntries((await listEffects(db, project.id)).map((e) => [e.name, e]));
 
       const rose = parseEffect(byName["Compass rose emblem"].document);
-      expect(rose.canvas).toEqual({ width: 32, height: 32 });
+      expect(rose.canvas).toEqual({ width: 48, height: 32 });
+      expect(rose.pivot).toEqual({ x: 24, y: 16 });
       expect(rose.angles).toEqual({ sweep: { from: 0, to: 360, frames: 64, easing: "linear", includeEnd: false } });
       expect(rose.fixedPoint).toEqual({ bits: 16, fraction: 8 }); // Q8.8
       expect(rose.edges).toBe("wrap");
@@ -54,10 +57,54 @@ describe("seedDemo", () => {
 
       const files = await db.select().from(sprites);
       const roseSprite = files.find((s) => s.name === "compass-rose.png")!;
-      const image = decodeIndexedPng(roseSprite.png);
-      expect([image.width, image.height, roseSprite.width, roseSprite.height]).toEqual([32, 32, 32, 32]);
+      const image = decodePng(roseSprite.png);
+      expect([image.width, image.height, roseSprite.width, roseSprite.height, roseSprite.kind]).toEqual([32, 32, 32, 32, "indexed"]);
+      if (image.kind !== "indexed") throw new Error("the rose must be indexed");
       expect(image.palette[0][3]).toBe(0);
       expect(roseSprite.palette).toEqual(image.palette);
+      expect(roseSprite.byteSize).toBe(roseSprite.png.length);
+    });
+  });
+
+  it("ships the emblem on a canvas where nothing wraps on any frame, and the storm tilt as the one deliberately tight example", async () => {
+    await withFreshDatabase(async (db) => {
+      await seedDemo(db);
+      const [project] = await db.select().from(projects);
+      const all = await db.select().from(effects);
+      const effect = (name: string) => all.find((e) => e.name === name)!;
+
+      // The emblem, measured by core over the rose's opaque pixels, as the bench measures a sprite.
+      const emblem = effect("Compass rose emblem");
+      const emblemDoc = parseEffect(emblem.document);
+      const { image: rose } = (await getSpriteImage(db, emblem.spriteId!))!;
+      const roseSource = placedSource(emblemDoc, rose, emblem.spriteX, emblem.spriteY);
+      const roseMask = opaqueMask(roseSource);
+      const emblemTables = compileTables(emblemDoc, { mask: roseMask });
+      expect(emblemTables.frames).toHaveLength(64);
+      expect(emblemTables.frames.filter((f) => f.wrapped > 0 || f.clipped > 0).map((f) => f.index)).toEqual([]);
+      expect(canvasFit(emblemDoc, { mask: roseMask }).fitsNow).toBe(true);
+      // Centred, and whole 8 × 8 tiles (an 8-bit target's tile size, from memory of such hardware).
+      expect(spritePlacement(emblemDoc.canvas, rose, emblem.spriteX, emblem.spriteY)).toEqual({ x: 8, y: 0, width: 32, height: 32 });
+      expect([emblemDoc.canvas.width % 8, emblemDoc.canvas.height % 8]).toEqual([0, 0]);
+      // On the rose's own 32 × 32 canvas the points wrap: the growth is needed, not decoration.
+      const tight = parseEffect({ ...emblem.document, canvas: { width: 32, height: 32 }, pivot: { x: 16, y: 16 } });
+      expect(compileTables(tight, { mask: opaqueMask(rose) }).frames.some((f) => f.wrapped > 0)).toBe(true);
+      expect(emblem.description).toContain("no point of the rose wraps");
+
+      // The storm tilt wraps on every frame, as its description says, with the canvas-fit size it names.
+      const storm = effect("Storm background tilt");
+      const stormDoc = parseEffect(storm.document);
+      const { image: harbour } = (await getSpriteImage(db, storm.spriteId!))!;
+      const stormMask = opaqueMask(placedSource(stormDoc, harbour, storm.spriteX, storm.spriteY));
+      expect(compileTables(stormDoc, { mask: stormMask }).frames.every((f) => f.wrapped > 0)).toBe(true);
+      const fit = canvasFit(stormDoc, { mask: stormMask });
+      expect(storm.description).toMatch(/^Deliberately tight/);
+      expect(storm.description).toContain(`${fit.width} × ${fit.height}`);
+
+      // The target profile the emblem follows has the emblem's canvas.
+      const [profile] = await db.select().from(targetProfiles).where(eq(targetProfiles.id, emblem.targetProfileId!));
+      expect([profile.canvasWidth, profile.canvasHeight]).toEqual([emblemDoc.canvas.width, emblemDoc.canvas.height]);
+      expect(project.description).toContain("kept tight on purpose");
     });
   });
 });

@@ -1,7 +1,7 @@
 import { connect } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createMailer } from "../../app/mail.server.ts";
-import { startFakeMail, type FakeMail } from "./mail.ts";
+import { REFUSED_DOMAIN, startFakeMail, type FakeMail } from "./mail.ts";
 
 let fake: FakeMail;
 beforeAll(async () => {
@@ -48,5 +48,15 @@ describe("the local mail catcher", () => {
     expect(messages[0]).toMatchObject({ from: "no-reply@skewsmith.invalid", to: ["second@example.test"], text: "two\nlines\n" });
     await fetch(`${fake.mailboxUrl}/messages`, { method: "DELETE" });
     expect(await (await fetch(`${fake.mailboxUrl}/messages`)).json()).toEqual([]);
+  });
+});
+
+describe("refused mailboxes", () => {
+  it("refuses mail to the refused domain at RCPT TO with 550, and catches nothing", async () => {
+    const mailer = createMailer(fake.smtpUrl, "Skewsmith <no-reply@skewsmith.invalid>");
+    const sending = mailer.send({ to: `nobody@${REFUSED_DOMAIN}`, subject: "Refused", text: "x" });
+    await expect(sending).rejects.toMatchObject({ responseCode: 550 });
+    mailer.close();
+    expect(fake.messages().filter((m) => m.subject === "Refused")).toEqual([]);
   });
 });

@@ -7,6 +7,9 @@
  *   GET    /messages   caught messages, newest first (JSON)
  *   DELETE /messages   forget them all
  *
+ * Mail to any address at REFUSED_DOMAIN is refused at RCPT TO with 550, as a real server refuses an unknown
+ * mailbox, so tests can see how the app copes with mail that cannot be sent.
+ *
  * Run: node --import tsx scripts/fakes/mail.ts  (FAKE_SMTP_PORT, FAKE_MAILBOX_PORT)
  */
 import { randomUUID } from "node:crypto";
@@ -34,6 +37,9 @@ export interface FakeMail {
   close(): Promise<void>;
 }
 
+/** Recipients at this domain are refused (550), for tests of mail that cannot be sent. The .test name is reserved (RFC 2606). */
+export const REFUSED_DOMAIN = "refused.test";
+
 /** Messages kept; older ones are dropped. */
 const KEEP = 200;
 
@@ -50,6 +56,13 @@ export async function startFakeMail(options: { smtpPort?: number; httpPort?: num
     logger: false,
     banner: "Skewsmith local mail catcher",
     size: 10 * 1024 * 1024,
+    onRcptTo(address, _session, callback) {
+      if (address.address.toLowerCase().endsWith(`@${REFUSED_DOMAIN}`)) {
+        const refusal = Object.assign(new Error(`5.1.1 <${address.address}>: mailbox unavailable`), { responseCode: 550 });
+        return callback(refusal);
+      }
+      callback();
+    },
     onData(stream, session, callback) {
       simpleParser(stream)
         .then((mail) => {

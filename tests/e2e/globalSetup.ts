@@ -39,6 +39,7 @@ export default async function setup(project: TestProject) {
         DEV_MAILBOX_URL: mail.mailboxUrl,
         // Every test signs in through the stand-in, several at once: far more often than a person would.
         RATE_LIMIT_SIGN_IN: "10000/60",
+        RATE_LIMIT_INVITATIONS: "10000/60",
       },
     });
   } catch (error) {

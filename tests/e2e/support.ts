@@ -7,19 +7,9 @@ import { expect, inject } from "vitest";
 import type { User } from "../../app/db/schema.ts";
 import { DEMO_PEOPLE } from "../../app/demo/people.ts";
 
-export const CHROMIUM = process.env.SKEWSMITH_CHROMIUM ?? "/usr/bin/chromium";
+import { CHROMIUM, CHROMIUM_ARGS } from "./chromium.ts";
 
-/** Flags for a headless Chromium in a container: no sandbox, no GPU, nothing that calls home. */
-export const CHROMIUM_ARGS = [
-  "--headless",
-  "--no-sandbox",
-  "--disable-gpu",
-  "--disable-quic",
-  "--no-first-run",
-  "--disable-background-networking",
-  "--disable-component-update",
-  "--disable-sync",
-];
+export { CHROMIUM, CHROMIUM_ARGS };
 
 const SHOTS = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../../test-results/e2e");
 
@@ -63,13 +53,27 @@ export async function signInAs(
   user: Pick<User, "githubId" | "login" | "name" | "email">,
   options: { viewport?: { width: number; height: number } } = {},
 ): Promise<{ context: BrowserContext; page: Page }> {
+  await registerAccount(user);
+  return chooseAccount(browser, user.login, options);
+}
+
+/** Tells the GitHub stand-in about a person the test made, so its account chooser offers them. */
+export async function registerAccount(user: Pick<User, "githubId" | "login" | "name" | "email">): Promise<void> {
   const added = await fetch(`${inject("githubUrl")}/_accounts`, {
     method: "POST",
     headers: { "Content-Type": "application/json" },
     body: JSON.stringify({ githubId: user.githubId, login: user.login, name: user.name, email: user.email }),
   });
   if (added.status !== 201) throw new Error(`the GitHub stand-in refused the test account ${user.login}: ${await added.text()}`);
-  return chooseAccount(browser, user.login, options);
+}
+
+/** On the sign-in page the app sent `page` to: signs in as `login` through the stand-in's chooser, and waits to be signed in. */
+export async function signInFromHere(page: Page, login: string): Promise<void> {
+  await expect.poll(() => new URL(page.url()).pathname).toBe("/sign-in");
+  await page.getByRole("button", { name: "Sign in with GitHub" }).click();
+  await page.getByRole("heading", { name: /Sign in to Skewsmith as/ }).waitFor();
+  await page.getByRole("button", { name: new RegExp(`@${login}(\\s|$)`) }).click();
+  await expect.poll(() => page.getByTestId("signed-in-as").textContent()).toContain(`@${login}`);
 }
 
 async function chooseAccount(
@@ -79,12 +83,8 @@ async function chooseAccount(
 ): Promise<{ context: BrowserContext; page: Page }> {
   const { context, page } = await openPage(browser, options.viewport);
   await page.goto("/");
-  await expect.poll(() => new URL(page.url()).pathname).toBe("/sign-in");
-  await page.getByRole("button", { name: "Sign in with GitHub" }).click();
-  await page.getByRole("heading", { name: /Sign in to Skewsmith as/ }).waitFor();
-  await page.getByRole("button", { name: new RegExp(`@${login}(\\s|$)`) }).click();
+  await signInFromHere(page, login);
   await page.waitForURL(`${appUrl()}/`);
-  await expect.poll(() => page.getByTestId("signed-in-as").textContent()).toContain(`@${login}`);
   return { context, page };
 }
 
@@ -106,4 +106,9 @@ export async function cookieHeader(context: BrowserContext): Promise<string> {
  */
 export function postForm(page: Page, url: string, form: Record<string, string>) {
   return page.request.post(url, { form, headers: { Origin: new URL(appUrl()).origin } });
+}
+
+/** The Origin header the app's own pages send with a post (for playwright's request API, which sends none). */
+export function sameOrigin(): { Origin: string } {
+  return { Origin: new URL(appUrl()).origin };
 }

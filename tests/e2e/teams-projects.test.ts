@@ -42,10 +42,12 @@ describe("a person with no team", () => {
     await page.waitForURL(/\/teams\/[0-9a-f-]{36}$/);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe(teamName);
     await expect.poll(() => page.getByText("No projects yet").count()).toBe(1);
-    await expect.poll(() => page.getByTestId("members-table").textContent()).toContain("owner");
+    await expect.poll(() => page.getByTestId("members-summary").textContent()).toContain("owner");
 
     // A shared target profile: core refuses a fraction as wide as the word, then the fixed one is listed.
-    await page.getByText("New target profile").click();
+    const teamUrl = page.url();
+    await page.getByRole("link", { name: "Manage target profiles" }).click();
+    await page.getByRole("link", { name: "New target profile" }).click();
     await page.getByLabel("Profile name").fill("Wide screen");
     await page.getByLabel("Canvas width").fill("256");
     await page.getByLabel("Canvas height").fill("224");
@@ -57,6 +59,8 @@ describe("a person with no team", () => {
       .toBe("Fraction bits: 8 is not allowed; allowed a whole number from 0 to 7 (below bits = 8)");
     await page.getByLabel("Fraction bits").fill("7");
     await page.getByRole("button", { name: "Create target profile" }).click();
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Wide screen");
+    await page.goto(teamUrl);
     await expect.poll(() => page.getByTestId("profiles-table").textContent()).toMatch(/Wide screen.*256 × 224.*Q1\.7/);
 
     // Projects: validation message, then a real one.
@@ -102,12 +106,16 @@ describe("a person with no team", () => {
     await row(page, "Lighthouse sweep copy").waitFor();
     await screenshot(page, "project-newcomer");
 
-    // The effect page shows its settings and the validated document.
+    // The effect's bench shows its settings and measures its 64 frames; the document download is the validated one.
     await row(page, "Lighthouse sweep").getByRole("link", { name: "Lighthouse sweep" }).click();
-    await page.waitForURL(/\/effects\/[0-9a-f-]{36}$/);
-    await expect.poll(() => page.getByTestId("frame-count").textContent()).toBe("64");
-    const document = JSON.parse((await page.getByTestId("effect-document").textContent())!);
-    expect(document).toMatchObject({
+    await page.waitForURL(/\/effects\/[0-9a-f-]{36}(\?.*)?$/);
+    await expect.poll(() => page.getByTestId("frame-table").locator("tbody tr").count()).toBe(64);
+    expect([await page.getByLabel("Width", { exact: true }).inputValue(), await page.getByLabel("Pivot x").inputValue()]).toEqual([
+      "64",
+      "32",
+    ]);
+    const download = await page.request.get(`${new URL(page.url()).pathname}/document.json`);
+    expect(await download.json()).toMatchObject({
       format: "skewsmith.effect/1",
       canvas: { width: 64, height: 64 },
       pivot: { x: 32, y: 32 },

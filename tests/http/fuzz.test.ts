@@ -39,8 +39,8 @@ export const TARGETS: FuzzTarget[] = [
     fields: { projectId: { kind: "uuid", valid: (w) => w.archived.id, foreign: (w) => w.foreign.project.id } },
   },
   {
-    name: "team: create-profile",
-    path: (w) => `/teams/${w.team.id}`,
+    name: "new target profile: create-profile",
+    path: (w) => `/teams/${w.team.id}/profiles/new`,
     intent: "create-profile",
     fields: {
       name: { kind: "name", valid: "Fuzzed profile" },
@@ -63,8 +63,8 @@ export const TARGETS: FuzzTarget[] = [
     fields: { name: { kind: "name", valid: "Renamed by the fuzzer" }, version: { kind: "version", valid: (w) => String(w.team.version) } },
   },
   {
-    name: "team: change-role",
-    path: (w) => `/teams/${w.team.id}`,
+    name: "members: change-role",
+    path: (w) => `/teams/${w.team.id}/members`,
     intent: "change-role",
     fields: {
       userId: { kind: "uuid", valid: (w) => w.viewer.id, foreign: (w) => w.stranger.id },
@@ -72,8 +72,8 @@ export const TARGETS: FuzzTarget[] = [
     },
   },
   {
-    name: "team: remove-member",
-    path: (w) => `/teams/${w.team.id}`,
+    name: "members: remove-member",
+    path: (w) => `/teams/${w.team.id}/members`,
     intent: "remove-member",
     fields: { userId: { kind: "uuid", valid: (w) => w.viewer.id, foreign: (w) => w.stranger.id } },
   },

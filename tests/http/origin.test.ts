@@ -18,7 +18,7 @@ afterAll(() => db.$client.end());
 const CHANGES = (w: World): [string, Record<string, string>][] => [
   ["/teams/new", { intent: "create-team", name: "Forged team" }],
   [`/teams/${w.team.id}`, { intent: "rename-team", name: "Forged name", version: String(w.team.version) }],
-  [`/teams/${w.team.id}`, { intent: "remove-member", userId: w.viewer.id }],
+  [`/teams/${w.team.id}/members`, { intent: "remove-member", userId: w.viewer.id }],
   [`/projects/${w.project.id}`, { intent: "create-effect", name: "Forged effect" }],
   [`/projects/${w.project.id}`, { intent: "archive-project" }],
   [`/projects/${w.project.id}.data`, { intent: "delete-effect", effectId: w.effect.id }],

@@ -73,7 +73,8 @@ export function readIndexed(file: Uint8Array): { width: number; height: number; 
   return { width, height, indices, plte, trns };
 }
 
-function chunk(type: string, data: Buffer): Buffer {
+/** One chunk: length, type, data and the CRC-32 over type and data (§5.3). */
+export function chunk(type: string, data: Buffer): Buffer {
   const head = Buffer.alloc(8);
   head.writeUInt32BE(data.length, 0);
   head.write(type, 4, "latin1");
@@ -112,4 +113,27 @@ export function writeIndexed(
     chunk("IDAT", deflateSync(raw)),
     chunk("IEND", Buffer.alloc(0)),
   ]);
+}
+
+/** The 13 data bytes of an IHDR chunk (§11.2.2), with any values a test wants, allowed or not. */
+export function ihdr(h: { width: number; height: number; depth?: number; colourType?: number; interlace?: number }): Buffer {
+  const data = Buffer.alloc(13);
+  data.writeUInt32BE(h.width, 0);
+  data.writeUInt32BE(h.height, 4);
+  data[8] = h.depth ?? 8;
+  data[9] = h.colourType ?? 6;
+  data[12] = h.interlace ?? 0;
+  return data;
+}
+
+/** A PNG file from an IHDR, the filtered image data (deflated here into one IDAT) and optional chunks before it. */
+export function pngFile(header: Buffer, raw: Buffer, before: Buffer[] = []): Buffer {
+  return Buffer.concat([SIGNATURE, chunk("IHDR", header), ...before, chunk("IDAT", deflateSync(raw)), chunk("IEND", Buffer.alloc(0))]);
+}
+
+/** Writes an 8-bit RGBA PNG (colour type 6), filter type 0 on every row (§9.2). */
+export function writeRgba(width: number, height: number, rgba: Uint8Array): Buffer {
+  const raw = Buffer.alloc(height * (width * 4 + 1));
+  for (let y = 0; y < height; y++) raw.set(rgba.subarray(y * width * 4, (y + 1) * width * 4), y * (width * 4 + 1) + 1);
+  return pngFile(ihdr({ width, height }), raw);
 }

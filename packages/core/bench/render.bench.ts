@@ -1,26 +1,30 @@
 /**
- * Render benchmark (issue 2, part 8): one 3840×2160 RGBA frame turned by 7°, 30° and 80° about its centre.
+ * Render benchmark (issue 2, part 8; issue 10, item 6): one 3840×2160 RGBA frame turned by 7°, 30° and 80° about its
+ * centre.
  *
- * Every case runs once per round, rounds interleaved so that all cases see the same machine load (the library's rounds
- * come in a second phase, see below); the table shows the median of each. Ratios are against cases measured in this
- * same run:
+ * Every case runs once per round, all rounds interleaved in one process so that every case sees the same machine load,
+ * after warm-up rounds for all of them (the library included); the table shows the median of each. Ratios are against
+ * cases measured in this same run:
  *   (a) the memory floor: a plain block copy of the frame, three times (TypedArray.prototype.set);
  *   (b) a naive per-pixel inverse mapping in JS: every destination pixel turns its centre back and copies the nearest
  *       source pixel, or background when that falls outside;
- *   (c) a general-purpose image library from the registry (sharp, libvips on one thread), nearest-neighbour affine.
+ *   (c) a general-purpose image library from the registry (sharp, libvips on one thread), nearest-neighbour affine,
+ *       its output cropped (or padded) to the same 3840×2160 about the centre (a second sharp pipeline, timed with the first:
+ *       sharp cannot crop after an affine in one pipeline);
+ *   (d) the renderer before issue 10 (bench/baseline/render.ts).
  * "pixels kept" counts distinct source pixels present in the output: every source pixel carries its own value.
  * A benchmark prints numbers, never verdicts: nothing here passes or fails.
  *
  * Run: `npx tsx bench/render.bench.ts [rounds]` (default 11 rounds after 2 warm-up rounds).
  */
 import os from "node:os";
-import v8 from "node:v8";
-import vm from "node:vm";
 import type { Sharp } from "sharp";
 import type sharpLibrary from "sharp";
 import { compileFrame } from "../src/compileTables.ts";
 import { parseEffect, type Effect } from "../src/effect.ts";
 import { Renderer } from "../src/render.ts";
+import { Renderer as BaselineRenderer } from "./baseline/render.ts";
+import { collectGarbage, median } from "./support.ts";
 
 const W = 3840;
 const H = 2160;
@@ -28,11 +32,6 @@ const N = W * H;
 const ANGLES = [7, 30, 80];
 const ROUNDS = Number(process.argv[2] ?? 11);
 const WARM_UP = 2;
-
-// A full collection before every timed case, outside the timing, so no case pays for another's garbage (the library's
-// output buffers are large).
-v8.setFlagsFromString("--expose-gc");
-const collectGarbage = vm.runInNewContext("gc") as () => void;
 
 // Every source pixel gets its own opaque colour: id + 1 in R, G, B (little-endian words), alpha 255; 0 is background.
 const ID_MASK = 0xffffff;
@@ -45,6 +44,7 @@ const planeA = new Uint32Array(N).fill(1);
 const planeB = new Uint32Array(N).fill(1);
 const naiveOut = new Uint32Array(N).fill(1);
 const renderer = new Renderer(W, H, Uint32Array);
+const baselineRenderer = new BaselineRenderer(W, H, Uint32Array);
 const seen = new Uint8Array(N + 1);
 
 /** How many distinct source pixels a plane of words (RGBA, little-endian) holds. */
@@ -80,13 +80,13 @@ function naiveInverse(src: Uint32Array, dst: Uint32Array, degrees: number): void
   }
 }
 
-/** The library, loaded only after the JS cases are measured (see the note on phases below). */
-// eslint-disable-next-line prefer-const -- assigned once, later: after the JS cases are measured (see below)
-let sharp: typeof sharpLibrary | undefined;
+/** The library, loaded before any case runs: every case is measured with its native code in the process. */
+const sharp: typeof sharpLibrary = (await import("sharp")).default;
+sharp.concurrency(1);
+sharp.cache(false);
 
-/** (c): raw RGBA in, nearest-neighbour affine turn by θ, raw RGBA out; the output is the turned frame's bounding box. */
+/** (c): raw RGBA in, nearest-neighbour affine turn by θ, then the centred W×H of its output, raw RGBA out. */
 async function library(degrees: number): Promise<{ data: Buffer; width: number; height: number }> {
-  if (sharp === undefined) throw new Error("library: not loaded yet");
   const t = (degrees * Math.PI) / 180;
   const cos = Math.cos(t);
   const sin = Math.sin(t);
@@ -97,7 +97,23 @@ async function library(degrees: number): Promise<{ data: Buffer; width: number; 
     ],
     { interpolator: sharp.interpolators.nearest, background: { r: 0, g: 0, b: 0, alpha: 0 } },
   );
-  const { data, info } = await pipeline.raw().toBuffer({ resolveWithObject: true });
+  const turned = await pipeline.raw().toBuffer({ resolveWithObject: true });
+  // The centred W×H of the turned bounding box: cropped where the box is larger, padded (transparent) where smaller.
+  const bw = turned.info.width;
+  const bh = turned.info.height;
+  const cw = Math.min(W, bw);
+  const ch = Math.min(H, bh);
+  const { data, info } = await sharp(turned.data, { raw: { width: bw, height: bh, channels: 4 } })
+    .extract({ left: (bw - cw) >> 1, top: (bh - ch) >> 1, width: cw, height: ch })
+    .extend({
+      left: (W - cw) >> 1,
+      right: W - cw - ((W - cw) >> 1),
+      top: (H - ch) >> 1,
+      bottom: H - ch - ((H - ch) >> 1),
+      background: { r: 0, g: 0, b: 0, alpha: 0 },
+    })
+    .raw()
+    .toBuffer({ resolveWithObject: true });
   return { data, width: info.width, height: info.height };
 }
 
@@ -144,7 +160,7 @@ const floor: Case = {
   times: [],
 };
 const cases: Case[] = [floor];
-const groups: { degrees: number; passes: Case[]; whole: Case; naive: Case; lib: Case }[] = [];
+const groups: { degrees: number; passes: Case[]; whole: Case; naive: Case; lib: Case; baseline: Case }[] = [];
 for (const degrees of ANGLES) {
   const effect = effectAt(degrees);
   const frame = compileFrame(effect, 0, degrees);
@@ -155,9 +171,14 @@ for (const degrees of ANGLES) {
   ];
   const whole: Case = { name: `${degrees}° three-shear render`, run: () => renderer.render(source, frame, effect), times: [] };
   const naive: Case = { name: `${degrees}° (b) naive inverse, JS`, run: () => naiveInverse(source, naiveOut, degrees), times: [] };
-  const lib: Case = { name: `${degrees}° (c) sharp affine`, run: () => library(degrees), times: [] };
-  cases.push(...passes, whole, naive);
-  groups.push({ degrees, passes, whole, naive, lib });
+  const lib: Case = { name: `${degrees}° (c) sharp affine, cropped to ${W}×${H}`, run: () => library(degrees), times: [] };
+  const baseline: Case = {
+    name: `${degrees}° (d) renderer before issue 10`,
+    run: () => baselineRenderer.render(source, frame, effect),
+    times: [],
+  };
+  cases.push(...passes, whole, naive, lib, baseline);
+  groups.push({ degrees, passes, whole, naive, lib, baseline });
   // Pixels kept, counted once outside the timing.
   whole.kept = share(kept(renderer.render(source, frame, effect)));
   naiveInverse(source, naiveOut, degrees);
@@ -182,32 +203,15 @@ async function measure(phase: readonly Case[]): Promise<void> {
   }
 }
 
-// Two phases: the JS cases first, then the library's. Merely loading the library's native code into the process made the
-// render's memory-bound column gather up to 1.6 times slower here (the cause was not found; the floor barely moved), so
-// the library is loaded only once the JS cases are done.
+for (const g of groups) g.lib.kept = share(kept(words((await library(g.degrees)).data)));
 await measure(cases);
-sharp = (await import("sharp")).default;
-sharp.concurrency(1);
-sharp.cache(false);
-for (const g of groups) {
-  const sample = await library(g.degrees);
-  g.lib.name = `${g.degrees}° (c) sharp affine, ${sample.width}×${sample.height} out`;
-  g.lib.kept = share(kept(words(sample.data)));
-}
-await measure(groups.map((g) => g.lib));
-
-const median = (xs: readonly number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 const floorMs = median(floor.times);
 const cpu = os.cpus();
 console.log(
   `Render benchmark: ${W}×${H} RGBA frame (${N} pixels, 32-bit words), ${ROUNDS} interleaved rounds after ${WARM_UP} warm-up, medians;`,
 );
-console.log("The library is loaded and measured after the JS cases (with its native code loaded the gather ran up to 1.6 times slower).");
+console.log("All cases, the library's included, interleaved in one process with the library loaded throughout, after warm-up rounds.");
 console.log(
   `Node ${process.version}, ${cpu.length} × ${cpu[0]?.model ?? "unknown CPU"}, load average ${os.loadavg()[0].toFixed(2)} at the end.`,
 );
@@ -231,15 +235,16 @@ console.log(
 console.log("");
 
 const best = (xs: readonly number[]) => Math.min(...xs).toFixed(2);
-const header = ["case", "ms", "best ms", "÷ floor", "(b) ÷", "(c) ÷", "pixels kept"];
-const rows: string[][] = [[floor.name, median(floor.times).toFixed(2), best(floor.times), "1.00", "", "", "(a copy)"]];
+const header = ["case", "ms", "best ms", "÷ floor", "(b) ÷", "(c) ÷", "(d) ÷", "pixels kept"];
+const rows: string[][] = [[floor.name, median(floor.times).toFixed(2), best(floor.times), "1.00", "", "", "", "(a copy)"]];
 for (const g of groups) {
   const naiveMs = median(g.naive.times);
   const libMs = median(g.lib.times);
   const [one, oneTwo, three] = g.passes.map((p) => median(p.times));
-  rows.push([g.passes[0].name, one.toFixed(2), best(g.passes[0].times), (one / floorMs).toFixed(2), "", "", ""]);
-  rows.push([`${g.degrees}° pass 2 (columns)`, (oneTwo - one).toFixed(2), "", ((oneTwo - one) / floorMs).toFixed(2), "", "", ""]);
-  rows.push([g.passes[2].name, three.toFixed(2), best(g.passes[2].times), (three / floorMs).toFixed(2), "", "", ""]);
+  const baseMs = median(g.baseline.times);
+  rows.push([g.passes[0].name, one.toFixed(2), best(g.passes[0].times), (one / floorMs).toFixed(2), "", "", "", ""]);
+  rows.push([`${g.degrees}° pass 2 (columns)`, (oneTwo - one).toFixed(2), "", ((oneTwo - one) / floorMs).toFixed(2), "", "", "", ""]);
+  rows.push([g.passes[2].name, three.toFixed(2), best(g.passes[2].times), (three / floorMs).toFixed(2), "", "", "", ""]);
   const wholeMs = median(g.whole.times);
   rows.push([
     g.whole.name,
@@ -248,6 +253,7 @@ for (const g of groups) {
     (wholeMs / floorMs).toFixed(2),
     (naiveMs / wholeMs).toFixed(2),
     (libMs / wholeMs).toFixed(2),
+    (baseMs / wholeMs).toFixed(2),
     g.whole.kept ?? "",
   ]);
   rows.push([
@@ -257,6 +263,7 @@ for (const g of groups) {
     (naiveMs / floorMs).toFixed(2),
     "1.00",
     (libMs / naiveMs).toFixed(2),
+    "",
     g.naive.kept ?? "",
   ]);
   rows.push([
@@ -266,7 +273,18 @@ for (const g of groups) {
     (libMs / floorMs).toFixed(2),
     (naiveMs / libMs).toFixed(2),
     "1.00",
+    "",
     g.lib.kept ?? "",
+  ]);
+  rows.push([
+    g.baseline.name,
+    baseMs.toFixed(2),
+    best(g.baseline.times),
+    (baseMs / floorMs).toFixed(2),
+    "",
+    (libMs / baseMs).toFixed(2),
+    "1.00",
+    "",
   ]);
 }
 const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));

@@ -3,7 +3,8 @@ import { coefficients } from "./coefficients.ts";
 import type { Effect } from "./effect.ts";
 import { elementType, type ElementType } from "./elementType.ts";
 import { frameAngle } from "./frameAngle.ts";
-import { frameDiagnostics, type FrameDiagnostics } from "./frameDiagnostics.ts";
+import { diagnoseTrack, type DiagnoseOptions } from "./diagnostics/diagnoseTrack.ts";
+import type { FrameDiagnostics } from "./frameDiagnostics.ts";
 import { columnShiftsInto, rowShiftsInto } from "./shiftTable.ts";
 
 /** One compiled frame: its angles (degrees), coefficients (integers scaled by 2^F) and shift tables (whole pixels). */
@@ -50,11 +51,12 @@ export function compileFrame(effect: Effect, index: number, degrees: number): Fr
   return { index, ...angle, alpha, beta, saturated, h, v, maxAbsShift: Math.max(maxAbs(h), maxAbs(v)) };
 }
 
-/** Options of compileTables. */
-export interface CompileOptions {
-  /** Measure over these pixels only (one byte per canvas pixel, non-zero = measured), say a sprite's opaque pixels. */
-  readonly mask?: Uint8Array;
-}
+/**
+ * Options of compileTables: `mask` measures over those pixels only (one byte per canvas pixel, non-zero = measured),
+ * say a sprite's opaque pixels; `workers` sets how many worker threads a large track is spread over besides the calling
+ * thread (default one less than the cores, in Node; 0: the calling thread only).
+ */
+export type CompileOptions = DiagnoseOptions;
 
 function maxAbs(table: Int32Array): number {
   let m = 0;
@@ -137,12 +139,12 @@ export function compileShifts(effect: Effect): CompiledTables<FrameTables> {
   return { effect, elementType: elementType(min, max), frames };
 }
 
-/** Compiles every frame of a validated effect with its diagnostics: what `skewsmith tables` reports (spec §8). */
+/**
+ * Compiles every frame of a validated effect with its diagnostics: what `skewsmith tables` reports (spec §8). A large
+ * track's diagnostics are spread over worker threads where Node has them (options.workers); the figures are the same.
+ */
 export function compileTables(effect: Effect, options: CompileOptions = {}): CompiledTables {
   const { elementType: type, frames } = compileShifts(effect);
-  return {
-    effect,
-    elementType: type,
-    frames: frames.map((f) => ({ ...f, ...frameDiagnostics(f, effect, options.mask) })),
-  };
+  const diagnostics = diagnoseTrack(effect, frames, options);
+  return { effect, elementType: type, frames: frames.map((f, i) => ({ ...f, ...diagnostics[i] })) };
 }

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { EffectError, type EffectIssue } from "./effectError.ts";
 import {
   EASINGS,
   EDGES,
@@ -11,6 +12,8 @@ import {
   type HalfTurn,
   type Rounding,
 } from "./limits.ts";
+
+export { EffectError, type EffectIssue } from "./effectError.ts";
 
 /** Format tag of an effect document (spec §7). */
 export const EFFECT_FORMAT = "skewsmith.effect/1";
@@ -53,22 +56,6 @@ export const EFFECT_DEFAULTS = {
   columnGroup: 1,
   sweep: { easing: "linear", includeEnd: false },
 } as const;
-
-/** One problem found in an effect document: the field's dotted path and what is wrong with it. */
-export interface EffectIssue {
-  readonly path: string;
-  readonly message: string;
-}
-
-/** Thrown when an effect document is not valid; `issues` names every bad field. */
-export class EffectError extends Error {
-  readonly issues: readonly EffectIssue[];
-  constructor(issues: readonly EffectIssue[]) {
-    super(`invalid effect document:\n${issues.map((i) => `  ${i.path || "(document)"}: ${i.message}`).join("\n")}`);
-    this.name = "EffectError";
-    this.issues = issues;
-  }
-}
 
 function show(value: unknown): string {
   if (value === undefined) return "nothing";

@@ -50,25 +50,26 @@ export class Renderer<T extends PixelData> {
   readonly width: number;
   readonly height: number;
   private readonly a: T;
-  private readonly b: T;
+  /** The second own plane, made on the first render that needs it (renderInto never does). */
+  private bPlane: T | null = null;
+  private readonly type: Ctor<T>;
+  /** The gather from plane a into plane b: this renderer's own compiled copy of the loop (see ownGather). */
+  private ownGather: Gather | null | undefined = undefined;
   /** Per column c: its shift t reduced into [−H, H] (wrap: the remainder of v[c] by H; clip: clamped). */
   private readonly colShift: Int32Array;
   /** Per column c: c − t·W; adding r·W gives the index of the source pixel that row r of column c takes. */
   private readonly colOff: Int32Array;
   private readonly stripWidth: number;
-  /** The gather from plane a into plane b, the usual case: a closure over this renderer's own planes (see ownGather). */
-  private readonly ownGather: Gather;
 
   /** Makes a renderer for `width` × `height` planes of the given element type (Uint8Array for indices, Uint32Array for RGBA). */
   constructor(width: number, height: number, type: Ctor<T>) {
     this.width = width;
     this.height = height;
+    this.type = type;
     this.a = new type(width * height);
-    this.b = new type(width * height);
     this.colShift = new Int32Array(width);
     this.colOff = new Int32Array(width);
     this.stripWidth = Math.max(16, STRIP_BYTES / this.a.BYTES_PER_ELEMENT);
-    this.ownGather = ownGather(this.a, this.b, this.colOff);
   }
 
   /**
@@ -78,13 +79,32 @@ export class Renderer<T extends PixelData> {
   render(src: T, frame: FrameShifts, geometry: RenderGeometry, pass: PassNumber = 3): T {
     this.check(src, frame, geometry);
     const clip = geometry.edges === "clip";
+    this.bPlane ??= new this.type(this.width * this.height);
+    const b = this.bPlane;
     // Write pass 1 into whichever own plane `src` is not, so feeding a returned plane back in is safe.
-    const first = src === this.a ? this.b : this.a;
-    const second = first === this.a ? this.b : this.a;
+    const first = src === this.a ? b : this.a;
+    const second = first === this.a ? b : this.a;
     this.firstRows(src, first, frame, geometry, clip);
     if (pass === 1) return first;
     this.gather(first, second, frame.v, pass === 3 ? frame.h : undefined, clip);
     return second;
+  }
+
+  /**
+   * Renders `src` through the frame up to pass `pass` straight into `dst`, a canvas-sized plane of the caller's apart from
+   * `src`: the last pass stores into it, so nothing is copied afterwards. Hot loop: writes `dst`.
+   */
+  renderInto(src: T, dst: T, frame: FrameShifts, geometry: RenderGeometry, pass: PassNumber = 3): void {
+    this.check(src, frame, geometry, dst);
+    const clip = geometry.edges === "clip";
+    if (pass === 1) {
+      this.firstRows(src, dst, frame, geometry, clip);
+      return;
+    }
+    const own = this.a;
+    if (own === src || own === dst) throw new RangeError("source or destination: is the renderer's own plane; pass a plane of your own");
+    this.firstRows(src, own, frame, geometry, clip);
+    this.gather(own, dst, frame.v, pass === 3 ? frame.h : undefined, clip);
   }
 
   /** Pass 1 alone (flip and first row pass) from `src` into `dst`, both canvas-sized and apart. Hot loop: writes `dst`. */
@@ -193,8 +213,9 @@ export class Renderer<T extends PixelData> {
       colShift[c] = t;
       colOff[c] = c - t * W;
     }
-    // The renderer's own gather, specialised to its planes, or one over the planes given.
-    const run = src === this.a && dst === this.b ? this.ownGather : gatherFor(src, dst, colOff);
+    const own = src === this.a && dst === this.bPlane;
+    if (own && this.ownGather === undefined) this.ownGather = ownGather(src, dst, colOff);
+    const run = own && this.ownGather ? this.ownGather : gatherFor(src, dst, colOff);
     for (let c0 = 0; c0 < W;) {
       // Grow the strip while it stays narrow enough and its shifts span few enough source rows.
       let tMin = colShift[c0];
@@ -310,12 +331,18 @@ interface Strip {
 type Gather = (base: number, d: number, a: number, b: number) => void;
 
 /**
- * The gather over a renderer's own planes. The planes live in the closure, so while a process has one renderer V8 can
- * compile them in as constants (no checks or reloads of the arrays in the loop): on a 4K frame the column pass took
- * about 1.5 times less than the same loop over arrays passed in (up to 1.8 at 7°, the same at 80°). With a second
- * renderer in the process both fall back to the general speed, never below it. Hot loop.
+ * The gather over two planes, one loop per element type: each of these closures only ever sees one kind of typed array,
+ * so its loop stays monomorphic however many renderers (of whatever kinds) the process has, and it is made anew for
+ * every column pass, so its speed never depends on V8 specialising a single closure to its arrays (the renderer before
+ * issue 10 did that: its first renderer ran up to 1.8 times faster than a second one). Hot loops, unrolled by 8.
  */
-function ownGather<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gather {
+function gatherFor<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gather {
+  if (dst instanceof Uint32Array) return gather32(src as Uint32Array, dst, colOff);
+  if (dst instanceof Uint8Array) return gather8(src as Uint8Array, dst, colOff);
+  return gatherAny(src, dst, colOff);
+}
+
+function gather32(src: Uint32Array, dst: Uint32Array, colOff: Int32Array): Gather {
   return (base, d, a, b) => {
     let c = a;
     for (; c + 7 < b; c += 8) {
@@ -333,8 +360,7 @@ function ownGather<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gat
   };
 }
 
-/** The same gather over any two planes (a separate closure site, so that it never spoils ownGather's). Hot loop. */
-function gatherFor<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gather {
+function gather8(src: Uint8Array, dst: Uint8Array, colOff: Int32Array): Gather {
   return (base, d, a, b) => {
     let c = a;
     for (; c + 7 < b; c += 8) {
@@ -349,6 +375,46 @@ function gatherFor<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gat
       dst[p + 7] = src[base + colOff[c + 7]];
     }
     for (; c < b; c++) dst[d + c] = src[base + colOff[c]];
+  };
+}
+
+/** The unrolled gather loop of gather32 and gather8, as source text for ownGather. */
+const GATHER_SOURCE = `return (base, d, a, b) => {
+  let c = a;
+  for (; c + 7 < b; c += 8) {
+    const p = d + c;
+    dst[p] = src[base + colOff[c]];
+    dst[p + 1] = src[base + colOff[c + 1]];
+    dst[p + 2] = src[base + colOff[c + 2]];
+    dst[p + 3] = src[base + colOff[c + 3]];
+    dst[p + 4] = src[base + colOff[c + 4]];
+    dst[p + 5] = src[base + colOff[c + 5]];
+    dst[p + 6] = src[base + colOff[c + 6]];
+    dst[p + 7] = src[base + colOff[c + 7]];
+  }
+  for (; c < b; c++) dst[d + c] = src[base + colOff[c]];
+};`;
+
+/**
+ * The gather over a renderer's own two planes, compiled from source for that renderer alone: a function of its own,
+ * whose only closure holds that renderer's planes, so V8 compiles them in as constants (no reloads or range checks of
+ * the arrays in the loop). The renderer before issue 10 had this for its first renderer only (one function shared by
+ * all, specialised while a process had one renderer: a second made both up to 1.8 times slower); here every renderer
+ * has its own, and a second renderer changes nothing of the first's. Where source cannot be compiled at run time (a
+ * page whose content security policy forbids it), null: the renderer uses the shared loops above.
+ */
+function ownGather<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gather | null {
+  try {
+    return new Function("src", "dst", "colOff", GATHER_SOURCE)(src, dst, colOff) as Gather;
+  } catch {
+    return null;
+  }
+}
+
+/** Any other element type (16-bit planes): one plain loop. */
+function gatherAny<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gather {
+  return (base, d, a, b) => {
+    for (let c = a; c < b; c++) dst[d + c] = src[base + colOff[c]];
   };
 }
 

@@ -1,16 +1,55 @@
-import { imageFromPlane, imagePlane, type Image } from "./image.ts";
+import { imagePlane, type Image } from "./image.ts";
 import { Renderer, type FrameShifts, type PassNumber, type RenderGeometry } from "./render.ts";
 
 /**
- * Draws one frame of a canvas-sized image as the target does (spec §5), up to pass `pass` (1, 2 or 3): an indexed
- * image stays indexed with the same palette, RGBA stays RGBA. Allocates; use Renderer directly to reuse buffers.
+ * Renderers kept for renderImage, one per canvas size and pixel kind, most recently used last. A renderer holds two
+ * canvas-sized planes, so a few are kept, not all: a 4K RGBA plane is 33 MB.
  */
-export function renderImage(image: Image, frame: FrameShifts, geometry: RenderGeometry, pass: PassNumber = 3): Image {
+const RENDERERS = new Map<string, Renderer<Uint8Array> | Renderer<Uint32Array>>();
+const KEPT_RENDERERS = 4;
+
+function rendererFor(width: number, height: number, kind: Image["kind"]): Renderer<Uint8Array> | Renderer<Uint32Array> {
+  const key = `${width}×${height} ${kind}`;
+  let renderer = RENDERERS.get(key);
+  if (renderer === undefined) {
+    renderer = kind === "indexed" ? new Renderer(width, height, Uint8Array) : new Renderer(width, height, Uint32Array);
+    if (RENDERERS.size >= KEPT_RENDERERS) RENDERERS.delete(RENDERERS.keys().next().value!);
+  } else RENDERERS.delete(key);
+  RENDERERS.set(key, renderer);
+  return renderer;
+}
+
+/**
+ * Draws one frame of a canvas-sized image as the target does (spec §5), up to pass `pass` (1, 2 or 3): an indexed
+ * image stays indexed with the same palette, RGBA stays RGBA. The result's pixels are `out` when given (a buffer of the
+ * caller's, as many bytes as the image's, apart from it), else a new buffer. The renderer behind it is kept for the next
+ * call of the same size and kind.
+ *
+ * The frame is drawn on the kept renderer's own planes and then copied into the result in one block: its column pass
+ * is compiled for those planes (Renderer's ownGather), and measured faster, copy included, than the same pass storing
+ * straight into the caller's buffer through the shared loop (bench/renderImage.bench.ts).
+ */
+export function renderImage(image: Image, frame: FrameShifts, geometry: RenderGeometry, pass: PassNumber = 3, out?: Uint8Array): Image {
   const { width, height } = geometry.canvas;
   if (image.width !== width || image.height !== height)
     throw new RangeError(`image: ${image.width}×${image.height} pixels; must equal the canvas, ${width}×${height}`);
-  const plane = imagePlane(image);
-  const renderer = plane instanceof Uint8Array ? new Renderer(width, height, Uint8Array) : new Renderer(width, height, Uint32Array);
-  const out = (renderer as Renderer<typeof plane>).render(plane, frame, geometry, pass);
-  return imageFromPlane(image, out);
+  if (out !== undefined && out.length !== image.data.length)
+    throw new RangeError(`out: ${out.length} bytes, expected ${image.data.length} (the image's)`);
+  if (
+    out !== undefined &&
+    out.buffer === image.data.buffer &&
+    out.byteOffset < image.data.byteOffset + image.data.byteLength &&
+    image.data.byteOffset < out.byteOffset + out.byteLength
+  )
+    throw new RangeError("out: shares memory with the source image; the result needs a buffer of its own");
+  const renderer = rendererFor(width, height, image.kind);
+  const src = imagePlane(image);
+  const plane =
+    image.kind === "indexed"
+      ? (renderer as Renderer<Uint8Array>).render(src as Uint8Array, frame, geometry, pass)
+      : (renderer as Renderer<Uint32Array>).render(src as Uint32Array, frame, geometry, pass);
+  const bytes = new Uint8Array(plane.buffer, plane.byteOffset, plane.byteLength);
+  const data = out ?? new Uint8Array(bytes.length);
+  data.set(bytes);
+  return image.kind === "indexed" ? { ...image, data } : { kind: "rgba", width, height, data };
 }

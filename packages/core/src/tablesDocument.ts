@@ -1,4 +1,4 @@
-import type { CompiledTables } from "./compileTables.ts";
+import { compileTables, type CompiledTables } from "./compileTables.ts";
 import type { Effect } from "./effect.ts";
 import type { ElementType } from "./elementType.ts";
 
@@ -54,4 +54,62 @@ export function tablesDocument(tables: CompiledTables): TablesDocument {
       maxAbsShift: f.maxAbsShift,
     })),
   };
+}
+
+/**
+ * The tables document of an effect as the text `skewsmith tables` prints: one JSON object and a newline, indented by two
+ * spaces when `pretty`. The command line and the app's API both print through this, so their bytes are the same.
+ */
+export function tablesText(effect: Effect, options: { readonly pretty?: boolean } = {}): string {
+  const tables = compileTables(effect);
+  return `${options.pretty ? JSON.stringify(tablesDocument(tables), null, 2) : tablesDocumentText(tables)}\n`;
+}
+
+/** Collapses every array of numbers in indented JSON onto one line, `[1, -2, 3]`, so that frames stay readable. */
+export function collapseNumberArrays(json: string): string {
+  return json.replace(/\[\s+(-?[\d.eE+-]+(?:,\s+-?[\d.eE+-]+)*)\s+\]/g, (_, body: string) => `[${body.split(/,\s+/).join(", ")}]`);
+}
+
+/**
+ * The tables document (spec §8) as JSON text, the very text `JSON.stringify(tablesDocument(tables))` gives (or, with
+ * `indent`, that of `JSON.stringify(…, null, 2)` with every array of numbers on one line), written straight from the
+ * typed arrays. Frames that share a table (compileShifts shares one per coefficient) share its text too, so a long track
+ * formats each distinct table once instead of building and printing an array of numbers per frame.
+ */
+export function tablesDocumentText(tables: CompiledTables, indent = false): string {
+  const texts = new Map<ArrayLike<number>, string>();
+  const sep = indent ? ", " : ",";
+  const list = (t: Int32Array): string => {
+    let s = texts.get(t);
+    if (s === undefined) {
+      s = `[${t.join(sep)}]`;
+      texts.set(t, s);
+    }
+    return s;
+  };
+  const num = (x: number) => JSON.stringify(x);
+  const parts: string[] = [];
+  if (!indent) {
+    parts.push(
+      `{"format":${JSON.stringify(TABLES_FORMAT)},"effect":${JSON.stringify(tables.effect)},"elementType":${JSON.stringify(tables.elementType)},"frames":[`,
+    );
+    tables.frames.forEach((f, i) => {
+      parts.push(
+        `${i ? "," : ""}{"index":${f.index},"degrees":${num(f.degrees)},"residualDegrees":${num(f.residualDegrees)},"flip":${f.flip},"alpha":${f.alpha},"beta":${f.beta},"h":${list(f.h)},"v":${list(f.v)},"maxErrorPx":${num(f.maxErrorPx)},"meanErrorPx":${num(f.meanErrorPx)},"wrapped":${f.wrapped},"clipped":${f.clipped},"saturated":${f.saturated},"maxAbsShift":${f.maxAbsShift}}`,
+      );
+    });
+    parts.push("]}");
+    return parts.join("");
+  }
+  const effect = collapseNumberArrays(JSON.stringify(tables.effect, null, 2).replace(/\n/g, "\n  "));
+  parts.push(
+    `{\n  "format": ${JSON.stringify(TABLES_FORMAT)},\n  "effect": ${effect},\n  "elementType": ${JSON.stringify(tables.elementType)},\n  "frames": [`,
+  );
+  tables.frames.forEach((f, i) => {
+    parts.push(
+      `${i ? "," : ""}\n    {\n      "index": ${f.index},\n      "degrees": ${num(f.degrees)},\n      "residualDegrees": ${num(f.residualDegrees)},\n      "flip": ${f.flip},\n      "alpha": ${f.alpha},\n      "beta": ${f.beta},\n      "h": ${list(f.h)},\n      "v": ${list(f.v)},\n      "maxErrorPx": ${num(f.maxErrorPx)},\n      "meanErrorPx": ${num(f.meanErrorPx)},\n      "wrapped": ${f.wrapped},\n      "clipped": ${f.clipped},\n      "saturated": ${f.saturated},\n      "maxAbsShift": ${f.maxAbsShift}\n    }`,
+    );
+  });
+  parts.push("\n  ]\n}");
+  return parts.join("");
 }

@@ -46,14 +46,25 @@ describe("three shears make a turn (Paeth 1986, multiplied with mathjs)", () => 
     { bits: 32, fraction: 24 },
     { bits: 16, fraction: 12 },
     { bits: 16, fraction: 8 },
+    { bits: 16, fraction: 10 },
   ] as const)(
-    "the core's fixed-point coefficients ($bits bits, $fraction fraction) multiply to the same turn within their quantisation",
+    "the core's own coefficients ($bits bits, $fraction fraction) multiply to the turn within less than one coefficient step",
     (fixedPoint) => {
-      // Each coefficient is off by at most 2^−(F+1); the product's entries are sums of at most three such terms times |α|, |β| ≤ 1.
-      const tolerance = 4 * 2 ** -(fixedPoint.fraction + 1);
-      for (let degrees = -90; degrees <= 90; degrees += 7.5) {
+      // With kα/2^F = α + ea and kβ/2^F = β + eb, |ea|, |eb| ≤ h = 2^−(F+1) (nearest rounding), the product of the three
+      // shears [[1 + ab, a(2 + ab)], [b, 1 + ab]] is off the rotation by, to first order (derived by hand, using
+      // 1 + αβ = cos θ): at most h in [1][0], (|α| + |β|)·h in [0][0] and [1][1], (2|cos θ| + α²)·h in [0][1]; the
+      // second-order terms add at most 3h². Each bound is checked to be below one step, 2^−F, so a coefficient one
+      // step off (or two roundings' worth of drift) fails.
+      const step = 2 ** -fixedPoint.fraction;
+      const h = step / 2;
+      const scale = 2 ** fixedPoint.fraction;
+      for (let eighths = -90 * 8; eighths <= 90 * 8; eighths += 3) {
+        const degrees = eighths / 8;
+        const t = (degrees * Math.PI) / 180;
+        const alpha = Math.abs(Math.tan(t / 2));
+        const beta = Math.abs(Math.sin(t));
         const k = coefficients(degrees, fixedPoint);
-        const scale = 2 ** fixedPoint.fraction;
+        expect(k.saturated, `${degrees}°`).toBe(false);
         const X = math.matrix([
           [1, k.alpha / scale],
           [0, 1],
@@ -62,7 +73,21 @@ describe("three shears make a turn (Paeth 1986, multiplied with mathjs)", () => 
           [1, 0],
           [k.beta / scale, 1],
         ]);
-        expectMatrixClose(math.multiply(math.multiply(X, Y), X), rotation((degrees * Math.PI) / 180), tolerance, `${degrees}°`);
+        const product = math.multiply(math.multiply(X, Y), X).toArray() as number[][];
+        const turn = rotation(t).toArray() as number[][];
+        const bound = [
+          [(alpha + beta) * h + 3 * h * h, (2 * Math.abs(Math.cos(t)) + alpha * alpha) * h + 3 * h * h],
+          [h, (alpha + beta) * h + 3 * h * h],
+        ];
+        for (let i = 0; i < 2; i++)
+          for (let j = 0; j < 2; j++) {
+            // At 0° and ±90° the coefficients are exact (tan 0 = sin 0 = 0, tan 45° = sin 90° = 1) and the bounds are
+            // not needed; near 0° the [0][1] bound tends to 2h = one step, but the error there is kα's alone, under h.
+            const exact = degrees === 0 || Math.abs(degrees) === 90;
+            if (!exact && !(i === 0 && j === 1 && Math.abs(degrees) < 10))
+              expect(bound[i][j], `${degrees}° [${i}][${j}]`).toBeLessThan(step);
+            expectClose(product[i][j], turn[i][j], exact ? 1e-12 : Math.min(bound[i][j], step) + 1e-12, `${degrees}° [${i}][${j}]`);
+          }
       }
     },
   );

@@ -1,6 +1,8 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { compileFrame, compileShifts, compileTables, parseEffect } from "../src/index.ts";
-import { refTables } from "./helpers/reference.ts";
+import { ROUNDINGS, compileFrame, compileShifts, compileTables, parseEffect, type Bits } from "../src/index.ts";
+import { turningAngle } from "./helpers/arbitraries.ts";
+import { refFrames, refTables } from "./helpers/reference.ts";
 
 const effect = (doc: Record<string, unknown>) => parseEffect(doc);
 
@@ -87,5 +89,80 @@ describe("compileTables (spec §2–§4, §8)", () => {
     const none = compileTables(e, { mask }).frames[0];
     expect(whole.wrapped).toBeGreaterThan(0);
     expect([none.wrapped, none.maxErrorPx, none.meanErrorPx]).toEqual([0, 0, 0]);
+  });
+});
+
+describe("compileShifts, with its tables shared between frames, equals the BigInt reference on every frame", () => {
+  it("for tracks of turning angles, few fraction bits (many exact halves), every rounding rule, pivot and column group", () => {
+    fc.assert(
+      fc.property(
+        fc.record({
+          W: fc.integer({ min: 1, max: 24 }),
+          H: fc.integer({ min: 1, max: 24 }),
+          px: fc.nat(),
+          py: fc.nat(),
+          g: fc.nat(),
+          F: fc.integer({ min: 0, max: 5 }),
+          bits: fc.constantFrom<Bits>(8, 16),
+          rounding: fc.constantFrom(...ROUNDINGS),
+          angles: fc.array(turningAngle, { minLength: 1, maxLength: 12 }),
+        }),
+        ({ W, H, px, py, g, F, bits, rounding, angles }) => {
+          const e = parseEffect({
+            canvas: { width: W, height: H },
+            pivot: { x: (px % (2 * W + 1)) / 2, y: (py % (2 * H + 1)) / 2 },
+            // Repeat the track so that frames share tables.
+            angles: { list: [...angles, ...angles] },
+            fixedPoint: { bits, fraction: F },
+            rounding,
+            columnGroup: (g % W) + 1,
+          });
+          for (const f of compileShifts(e).frames) {
+            const ref = refTables(f.alpha, f.beta, W, H, e.pivot, F, rounding, e.columnGroup);
+            expect(Array.from(f.h), `frame ${f.index} h`).toEqual(ref.h);
+            expect(Array.from(f.v), `frame ${f.index} v`).toEqual(ref.v);
+          }
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+});
+
+describe("every frame's angles, flip and coefficients equal the spec's reading (refFrames: 60-digit tan and sin)", () => {
+  it("for tracks of turning angles, boundary angles included, in every format and half-turn rule", () => {
+    fc.assert(
+      fc.property(
+        fc.array(turningAngle, { minLength: 1, maxLength: 6 }),
+        fc.constantFrom<Bits>(8, 16, 32),
+        fc.nat(),
+        fc.constantFrom("flip" as const, "shear" as const),
+        (angles, bits, f, halfTurn) => {
+          // A half turn by shear asks for −tan 90°, which has no value: the core saturates it, the reference cannot say how.
+          const list = angles.filter((a) => halfTurn === "flip" || Math.abs(a % 360) !== 180);
+          fc.pre(list.length > 0);
+          const e = parseEffect({
+            canvas: { width: 3, height: 3 },
+            pivot: { x: 1.5, y: 1.5 },
+            angles: { list },
+            fixedPoint: { bits, fraction: f % bits },
+            halfTurn,
+          });
+          const ref = refFrames(e);
+          compileShifts(e).frames.forEach((frame, i) => {
+            const r = ref[i];
+            expect([frame.degrees, frame.flip, frame.alpha, frame.beta, frame.saturated], `frame ${i}`).toEqual([
+              r.degrees,
+              r.flip,
+              r.alpha,
+              r.beta,
+              r.saturated,
+            ]);
+            expect(frame.residualDegrees).toBe(r.residualDegrees);
+          });
+        },
+      ),
+      { numRuns: 150 },
+    );
   });
 });

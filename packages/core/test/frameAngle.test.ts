@@ -57,6 +57,23 @@ describe("frameAngle: half turn by flip or by shear (spec §2)", () => {
   });
 
   it.each([
+    // Just past the quarter turn the flip starts (|θn| > 90°, spec §2): the residual is then just short of ∓90°.
+    [90.0001, -89.9999, true],
+    [-90.0001, 89.9999, true],
+    [90.5, -89.5, true],
+    [-90.5, 89.5, true],
+    [179.9, -0.1, true],
+    [-179.9, 0.1, true],
+    [450.5, -89.5, true],
+    [-629.5, -89.5, true], // −629.5° = 90.5° − 720°
+  ])("flip at the boundary: %f° → θr %f°, flip %s", (degrees, residual, flip) => {
+    const a = frameAngle(degrees, "flip");
+    expect(a.flip).toBe(flip);
+    expectClose(a.residualDegrees, residual, 1e-9, `residual of ${degrees}°`);
+    expectClose(a.degrees, normalizeDegrees(degrees), 0, `θn of ${degrees}°`);
+  });
+
+  it.each([
     [135, 135],
     [-135, -135],
     [180, 180],

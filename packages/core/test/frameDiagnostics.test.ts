@@ -2,6 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { Renderer, compileFrame, frameDiagnostics, parseEffect, type Effect, type FrameTables } from "../src/index.ts";
 import { firstFrame, smallEffect } from "./helpers/arbitraries.ts";
+import { frameDiagnostics as baselineDiagnostics } from "../bench/baseline/frameDiagnostics.ts";
 import { expectClose } from "./helpers/expectClose.ts";
 import { distinctPlane, idealCentre, refPath } from "./helpers/reference.ts";
 
@@ -129,5 +130,90 @@ describe("frameDiagnostics (spec §6)", () => {
   it("rejects a mask of the wrong size, naming both sizes", () => {
     const e = parseEffect({ canvas: { width: 5, height: 4 }, pivot: { x: 2.5, y: 2 }, angles: { list: [0] } });
     expect(() => frameDiagnostics(compileFrame(e, 0, 45), e, new Uint8Array(21))).toThrow(/21.*20/);
+  });
+});
+
+describe("frameDiagnostics against the implementation it replaced (bench/baseline, before issue 10)", () => {
+  // Angles that really turn: multiples of 1/8° in ±720°, and the edges of the half-turn rule (spec §2).
+  const angle = fc.oneof(
+    fc.integer({ min: -5760, max: 5760 }).map((n) => n / 8),
+    fc.constantFrom(0, 90, -90, 90.0001, -90.0001, 90.5, -90.5, 179.9, -179.9, 180, -180),
+  );
+  // Centred pivots (where the half of the rows is measured and mirrored) and any other pivot, odd and even sizes.
+  const effect = fc
+    .record({
+      width: fc.integer({ min: 1, max: 90 }),
+      height: fc.integer({ min: 1, max: 90 }),
+      centred: fc.boolean(),
+      px: fc.nat(),
+      py: fc.nat(),
+      fraction: fc.integer({ min: 0, max: 15 }),
+      rounding: fc.constantFrom("nearest-away", "nearest-up", "floor", "trunc"),
+      halfTurn: fc.constantFrom("flip", "shear"),
+      edges: fc.constantFrom("wrap", "clip"),
+      group: fc.nat(),
+    })
+    .map((r) =>
+      parseEffect({
+        canvas: { width: r.width, height: r.height },
+        pivot: r.centred ? { x: r.width / 2, y: r.height / 2 } : { x: (r.px % (2 * r.width + 1)) / 2, y: (r.py % (2 * r.height + 1)) / 2 },
+        angles: { list: [0] },
+        fixedPoint: { bits: 16, fraction: r.fraction },
+        rounding: r.rounding,
+        halfTurn: r.halfTurn,
+        edges: r.edges,
+        columnGroup: (r.group % r.width) + 1,
+      }),
+    );
+  // No mask, a mask symmetric about the centre (mirrored halves) or any mask.
+  const maskKind = fc.constantFrom("none", "symmetric", "any");
+
+  it("gives the same max error, wrapped and clipped bit for bit, and the mean within 1e-9 px", () => {
+    let mirrored = 0;
+    fc.assert(
+      fc.property(effect, angle, maskKind, fc.integer(), (e, degrees, kind, seed) => {
+        let f: FrameTables;
+        try {
+          f = compileFrame(e, 0, degrees);
+        } catch {
+          return; // shifts beyond int32 (a huge shear without the flip): no frame to measure
+        }
+        const { width: W, height: H } = e.canvas;
+        let mask: Uint8Array | undefined;
+        if (kind !== "none") {
+          mask = new Uint8Array(W * H);
+          for (let i = 0; i < W * H; i++) mask[i] = ((seed ^ (i * 2654435761)) >>> 7) & 1;
+          if (kind === "symmetric") for (let i = 0; i < W * H; i++) mask[W * H - 1 - i] = mask[i];
+        }
+        if (e.pivot.x * 2 === W && e.pivot.y * 2 === H) mirrored++;
+        const got = frameDiagnostics(f, e, mask);
+        const want = baselineDiagnostics(f, e, mask);
+        expect([got.maxErrorPx, got.wrapped, got.clipped]).toEqual([want.maxErrorPx, want.wrapped, want.clipped]);
+        expectClose(got.meanErrorPx, want.meanErrorPx, 1e-9, "meanErrorPx");
+      }),
+      { numRuns: 600 },
+    );
+    expect(mirrored).toBeGreaterThan(100);
+  });
+
+  it("holds on canvases up to 4096 pixels wide, where the rounding bound of the mirrored rows is widest", () => {
+    for (const [width, height] of [
+      [4096, 6],
+      [4095, 9],
+      [6, 4096],
+      [1920, 32],
+    ])
+      for (const degrees of [0.125, 7, 30, 45, 89.875, 90, 135.5, 180, -100.25]) {
+        const e = parseEffect({ canvas: { width, height }, pivot: { x: width / 2, y: height / 2 }, angles: { list: [degrees] } });
+        const f = compileFrame(e, 0, degrees);
+        const got = frameDiagnostics(f, e);
+        const want = baselineDiagnostics(f, e);
+        expect([got.maxErrorPx, got.wrapped, got.clipped], `${width}×${height} at ${degrees}°`).toEqual([
+          want.maxErrorPx,
+          want.wrapped,
+          want.clipped,
+        ]);
+        expectClose(got.meanErrorPx, want.meanErrorPx, 1e-9, `${width}×${height} at ${degrees}°`);
+      }
   });
 });

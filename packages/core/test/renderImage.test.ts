@@ -170,3 +170,83 @@ describe("agreement with an ordinary nearest-neighbour rotation (sharp/libvips a
     },
   );
 });
+
+describe("renderImage into a caller's buffer, with its renderers kept across calls", () => {
+  const effect = parseEffect({ canvas: { width: 33, height: 21 }, pivot: { x: 16.5, y: 10.5 }, angles: { list: [0] } });
+  const frames = [17, 100, -61].map((d) => compileFrame(effect, 0, d));
+  const rgba: RgbaImage = {
+    kind: "rgba",
+    width: 33,
+    height: 21,
+    data: Uint8Array.from({ length: 33 * 21 * 4 }, (_, i) => (i * 37 + 11) % 256),
+  };
+  const expectedFor = (f: (typeof frames)[number], pass: 1 | 2 | 3) =>
+    Array.from(
+      new Uint8Array(
+        new Renderer<Uint32Array<ArrayBufferLike>>(33, 21, Uint32Array).render(imagePlane(rgba) as Uint32Array, f, effect, pass).buffer,
+      ),
+    );
+
+  it("fills `out` with the frame and returns it as the image's pixels, for every pass", () => {
+    for (const f of frames)
+      for (const pass of [1, 2, 3] as const) {
+        const out = new Uint8Array(33 * 21 * 4).fill(9);
+        const image = renderImage(rgba, f, effect, pass, out);
+        expect(image.data).toBe(out);
+        expect(Array.from(out)).toEqual(expectedFor(f, pass));
+      }
+  });
+
+  it("takes an `out` that 32-bit words cannot view (an odd offset) and still fills it", () => {
+    const backing = new Uint8Array(33 * 21 * 4 + 1);
+    const out = backing.subarray(1);
+    renderImage(rgba, frames[1], effect, 3, out);
+    expect(Array.from(out)).toEqual(expectedFor(frames[1], 3));
+  });
+
+  it("refuses an `out` of the wrong size, naming both sizes, and one that is the image itself", () => {
+    expect(() => renderImage(rgba, frames[0], effect, 3, new Uint8Array(10))).toThrow("out: 10 bytes, expected 2772 (the image's)");
+    expect(() => renderImage(rgba, frames[0], effect, 3, rgba.data)).toThrow(/shares memory with the source/);
+  });
+
+  it("draws the same pixels after other sizes and kinds used and dropped the kept renderers in between", () => {
+    const first = Array.from(renderImage(rgba, frames[2], effect).data);
+    for (let w = 5; w < 11; w++) {
+      const e = parseEffect({ canvas: { width: w, height: 4 }, pivot: { x: w / 2, y: 2 }, angles: { list: [0] } });
+      const image: IndexedImage = {
+        kind: "indexed",
+        width: w,
+        height: 4,
+        data: Uint8Array.from({ length: 4 * w }, (_, i) => i % 4),
+        palette,
+      };
+      const expected = new Renderer<Uint8Array<ArrayBufferLike>>(w, 4, Uint8Array).render(image.data, compileFrame(e, 0, 30 * w), e);
+      expect(Array.from(renderImage(image, compileFrame(e, 0, 30 * w), e).data)).toEqual(Array.from(expected));
+    }
+    expect(Array.from(renderImage(rgba, frames[2], effect).data)).toEqual(first);
+    expect(first).toEqual(expectedFor(frames[2], 3));
+  });
+});
+
+describe("Renderer.renderInto", () => {
+  const effect = parseEffect({ canvas: { width: 12, height: 9 }, pivot: { x: 6, y: 4.5 }, angles: { list: [0] }, edges: "clip" });
+  const src = Uint32Array.from({ length: 108 }, (_, i) => i + 1);
+
+  it("writes what render returns into the caller's plane, for every pass", () => {
+    const renderer = new Renderer(12, 9, Uint32Array);
+    for (const degrees of [33, 147, -95])
+      for (const pass of [1, 2, 3] as const) {
+        const f = compileFrame(effect, 0, degrees);
+        const dst = new Uint32Array(108).fill(7);
+        renderer.renderInto(src, dst, f, effect, pass);
+        expect(Array.from(dst)).toEqual(Array.from(new Renderer(12, 9, Uint32Array).render(src, f, effect, pass)));
+      }
+  });
+
+  it("refuses the renderer's own plane (returned by render) as source or destination", () => {
+    const renderer = new Renderer(12, 9, Uint32Array);
+    const f = compileFrame(effect, 0, 40);
+    const own = renderer.render(src, f, effect, 1);
+    expect(() => renderer.renderInto(own, new Uint32Array(108), f, effect)).toThrow(/own plane/);
+  });
+});

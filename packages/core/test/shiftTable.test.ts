@@ -84,3 +84,46 @@ describe("both tables agree with the BigInt reading of spec §4 for any coeffici
     );
   });
 });
+
+describe("the table code rounds exact halves as the BigInt reading of spec §4 does, for every rounding rule", () => {
+  // With few fraction bits and small coefficients, k·t/2^(F+1) lands on m + 1/2 for many rows and columns: exactly where
+  // the four rules differ. A pivot on a pixel edge makes every t odd (t = 2r + 1 − P2y), on a pixel centre every t even.
+  const isHalf = (k: number, t: number, F: number) => Math.abs(k * t) % 2 ** (F + 1) === 2 ** F;
+
+  it.each(ROUNDINGS)("%s: h and v equal the reference entry for entry, halves included", (rounding) => {
+    let halves = 0;
+    fc.assert(
+      fc.property(
+        fc.integer({ min: -40, max: 40 }),
+        fc.integer({ min: -40, max: 40 }),
+        fc.integer({ min: 1, max: 24 }),
+        fc.integer({ min: 1, max: 24 }),
+        fc.nat(),
+        fc.nat(),
+        fc.nat(),
+        fc.integer({ min: 0, max: 3 }),
+        (alpha, beta, W, H, px, py, g, F) => {
+          const pivot = { x: (px % (2 * W + 1)) / 2, y: (py % (2 * H + 1)) / 2 };
+          const group = (g % W) + 1;
+          const rule = { fraction: F, rounding };
+          const ref = refTables(alpha, beta, W, H, pivot, F, rounding, group);
+          expect(Array.from(rowShifts(alpha, H, pivot.y * 2, rule))).toEqual(ref.h);
+          expect(Array.from(columnShifts(beta, W, pivot.x * 2, group, rule))).toEqual(ref.v);
+          for (let r = 0; r < H; r++) if (isHalf(alpha, 2 * r + 1 - 2 * pivot.y, F)) halves++;
+        },
+      ),
+      { numRuns: 300 },
+    );
+    // The property is only worth something if it met many exact halves (this is not a timing, it counts the cases).
+    expect(halves).toBeGreaterThan(300);
+  });
+
+  it("at x = ±1/2 and ±3/2 the four rules give their textbook answers in the table code too (derived by hand)", () => {
+    // k = 1, F = 0, pivot on the edge y = 2 of 4 rows: t = −3, −1, 1, 3, so x = t/2 = −1.5, −0.5, 0.5, 1.5.
+    const table = (rounding: Rounding) => Array.from(rowShifts(1, 4, 4, { fraction: 0, rounding }));
+    expect(table("nearest-away")).toEqual([-2, -1, 1, 2]);
+    expect(table("nearest-up")).toEqual([-1, 0, 1, 2]);
+    expect(table("floor")).toEqual([-2, -1, 0, 1]);
+    expect(table("trunc")).toEqual([-1, 0, 0, 1]);
+  });
+});

@@ -1,5 +1,8 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { TABLES_FORMAT, compileTables, parseEffect, tablesDocument } from "../src/index.ts";
+import { TABLES_FORMAT, compileTables, parseEffect, tablesDocument, tablesText } from "../src/index.ts";
+import { tablesDocumentText } from "../src/tablesDocument.ts";
+import { smallEffect, turningAngle } from "./helpers/arbitraries.ts";
 
 describe("tablesDocument: the skewsmith.tables/1 document of spec §8", () => {
   const effect = parseEffect({ canvas: { width: 2, height: 2 }, pivot: { x: 1, y: 1 }, angles: { list: [0, 90] } });
@@ -56,5 +59,45 @@ describe("tablesDocument: the skewsmith.tables/1 document of spec §8", () => {
   it("is plain JSON: tables are arrays and it survives a JSON round trip unchanged", () => {
     expect(Array.isArray(doc.frames[1].h)).toBe(true);
     expect(JSON.parse(JSON.stringify(doc))).toEqual(doc);
+  });
+});
+
+describe("tablesDocumentText writes the document's JSON straight from the typed arrays", () => {
+  it("the same text as JSON.stringify of the document, compact and indented (arrays of numbers on one line), for any effect", () => {
+    const collapse = (json: string) =>
+      json.replace(/\[\s+(-?[\d.eE+-]+(?:,\s+-?[\d.eE+-]+)*)\s+\]/g, (_, body: string) => `[${body.split(/,\s+/).join(", ")}]`);
+    fc.assert(
+      fc.property(
+        smallEffect({ maxSide: 9 }),
+        fc.array(fc.oneof(turningAngle, fc.double({ min: -1e6, max: 1e6, noNaN: true })), { minLength: 1, maxLength: 9 }),
+        (e0, angles) => {
+          const e = { ...e0, angles: { list: [...angles, ...angles] } };
+          let tables;
+          try {
+            tables = compileTables(e);
+          } catch {
+            fc.pre(false);
+          }
+          const doc = tablesDocument(tables!);
+          expect(tablesDocumentText(tables!)).toBe(JSON.stringify(doc));
+          expect(tablesDocumentText(tables!, true)).toBe(collapse(JSON.stringify(doc, null, 2)));
+        },
+      ),
+      { numRuns: 150 },
+    );
+  });
+});
+
+describe("tablesText: what `skewsmith tables` prints", () => {
+  const effect = parseEffect({ canvas: { width: 3, height: 2 }, pivot: { x: 1.5, y: 1 }, angles: { list: [0, 30] } });
+
+  it("is one line of JSON and a newline, or two-space indented JSON when pretty, both the same document", () => {
+    const line = tablesText(effect);
+    const pretty = tablesText(effect, { pretty: true });
+    expect(line.endsWith("}\n")).toBe(true);
+    expect(line.slice(0, -1)).not.toContain("\n");
+    expect(pretty).toMatch(/^\{\n {2}"format": "skewsmith\.tables\/1",\n/);
+    expect(JSON.parse(pretty)).toEqual(JSON.parse(line));
+    expect(JSON.parse(line)).toEqual(JSON.parse(JSON.stringify(tablesDocument(compileTables(effect)))));
   });
 });

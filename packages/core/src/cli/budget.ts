@@ -1,5 +1,3 @@
-import { compileShifts } from "../compileTables.ts";
-import { budgetFromTables, budgetText } from "../export/budget.ts";
 import { resolveExportOptions } from "../export/options.ts";
 import { exportOptionsHelp, readExportArgs, withOptionErrors } from "./export.ts";
 import type { Command } from "./io.ts";
@@ -18,6 +16,10 @@ options:
 ${exportOptionsHelp}`,
   async run(args, io) {
     const { effect, options, values } = await readExportArgs(args, io, { json: { type: "boolean" } });
+    const [{ compileShifts }, { budgetFromTables, budgetText }] = await Promise.all([
+      import("../compileTables.ts"),
+      import("../export/budget.ts"),
+    ]);
     const report = withOptionErrors(() => budgetFromTables(compileShifts(effect), resolveExportOptions(options)));
     io.stdout(values.json ? `${JSON.stringify(report, null, 2)}\n` : budgetText(report));
     return 0;

@@ -2,6 +2,7 @@ import { budgetCommand } from "./budget.ts";
 import { exportCommand } from "./export.ts";
 import type { Command } from "./io.ts";
 import { fitCommand } from "./fit.ts";
+import { pullCommand } from "./pull.ts";
 import { renderCommand } from "./render.ts";
 import { tablesCommand } from "./tables.ts";
 
@@ -12,4 +13,5 @@ export const commands: Readonly<Record<string, Command>> = {
   fit: fitCommand,
   export: exportCommand,
   budget: budgetCommand,
+  pull: pullCommand,
 };

@@ -1,12 +1,10 @@
 import { mkdir } from "node:fs/promises";
 import { basename, join } from "node:path";
-import { parseArgs } from "node:util";
 import type { Effect } from "../effect.ts";
-import { exportBundle } from "../export/bundle.ts";
 import { ExportOptionError } from "../export/exportOptionError.ts";
 import { EXPORT_OUTPUTS, REGISTER_BITS, type ExportOptionsInput, type ExportOutput } from "../export/options.ts";
+import { parseCommandArgs } from "./args.ts";
 import { UsageError, type CliIo, type Command } from "./io.ts";
-import { readEffectFile } from "./readEffectFile.ts";
 
 /** The parseArgs options `export` and `budget` share. */
 export const exportArgOptions = {
@@ -104,8 +102,9 @@ export async function readExportArgs<T extends Record<string, { type: "string" |
   io: CliIo,
   extra: T,
 ): Promise<{ effect: Effect; options: ExportOptionsInput; values: Record<string, string | boolean | undefined> }> {
-  const { positionals, values } = parseArgs({ args, allowPositionals: true, options: { ...exportArgOptions, ...extra } });
+  const { positionals, values } = parseCommandArgs(args, { ...exportArgOptions, ...extra });
   if (positionals.length > 1) throw new UsageError(`one EFFECT.json expected, got ${positionals.length}: ${positionals.join(" ")}`);
+  const { readEffectFile } = await import("./readEffectFile.ts");
   const effect = await readEffectFile(positionals[0], io);
   const options = exportOptionsFromArgs(values as Values, positionals[0]);
   return { effect, options, values: values as Record<string, string | boolean | undefined> };
@@ -148,6 +147,7 @@ ${exportOptionsHelp}`,
     const out = values.out as string | undefined;
     const zip = values.zip as string | undefined;
     if (out === undefined && zip === undefined) throw new UsageError("--out DIR or --zip FILE is required (where to write the bundle)");
+    const { exportBundle } = await import("../export/bundle.ts");
     const bundle = withOptionErrors(() => exportBundle(effect, options));
     if (out !== undefined) {
       await mkdir(out, { recursive: true });

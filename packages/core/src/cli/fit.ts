@@ -1,9 +1,5 @@
-import { parseArgs } from "node:util";
-import { canvasFit } from "../canvasFit.ts";
-import { opaqueMask } from "../image.ts";
+import { parseCommandArgs } from "./args.ts";
 import { UsageError, type Command } from "./io.ts";
-import { readCanvasImage } from "./readCanvasImage.ts";
-import { readEffectFile } from "./readEffectFile.ts";
 
 /** `skewsmith fit EFFECT.json [--image SPRITE.png]`: the smallest canvas on which nothing wraps or clips. */
 export const fitCommand: Command = {
@@ -21,11 +17,17 @@ options:
   --json              print the result as one JSON object
 `,
   async run(args, io) {
-    const { positionals, values } = parseArgs({
-      args,
-      allowPositionals: true,
-      options: { image: { type: "string" }, align: { type: "string" }, json: { type: "boolean" } },
+    const { positionals, values } = parseCommandArgs(args, {
+      image: { type: "string" },
+      align: { type: "string" },
+      json: { type: "boolean" },
     });
+    const [{ readEffectFile }, { readCanvasImage }, { canvasFit }, { opaqueMask }] = await Promise.all([
+      import("./readEffectFile.ts"),
+      import("./readCanvasImage.ts"),
+      import("../canvasFit.ts"),
+      import("../image.ts"),
+    ]);
     const effect = await readEffectFile(positionals[0], io);
     let mask: Uint8Array | undefined;
     if (values.image) mask = opaqueMask(await readCanvasImage(values.image, effect, io));

@@ -1,11 +1,5 @@
-import { parseArgs } from "node:util";
-import { compileFrame } from "../compileTables.ts";
-import { angleTrack } from "../angleTrack.ts";
-import { encodePng } from "../png.ts";
-import { renderImage } from "../renderImage.ts";
+import { parseCommandArgs } from "./args.ts";
 import { UsageError, type Command } from "./io.ts";
-import { readCanvasImage } from "./readCanvasImage.ts";
-import { readEffectFile } from "./readEffectFile.ts";
 
 function wholeNumberOption(name: string, text: string | undefined, min: number, max: number): number | undefined {
   if (text === undefined) return undefined;
@@ -35,11 +29,20 @@ options:
                    or 3 (the finished frame, default)
 `,
   async run(args, io) {
-    const { positionals, values } = parseArgs({
-      args,
-      allowPositionals: true,
-      options: { image: { type: "string" }, frame: { type: "string" }, out: { type: "string" }, pass: { type: "string" } },
+    const { positionals, values } = parseCommandArgs(args, {
+      image: { type: "string" },
+      frame: { type: "string" },
+      out: { type: "string" },
+      pass: { type: "string" },
     });
+    const [{ readEffectFile }, { readCanvasImage }, { angleTrack }, { compileFrame }, { encodePng }, { renderImage }] = await Promise.all([
+      import("./readEffectFile.ts"),
+      import("./readCanvasImage.ts"),
+      import("../angleTrack.ts"),
+      import("../compileTables.ts"),
+      import("../png.ts"),
+      import("../renderImage.ts"),
+    ]);
     const effect = await readEffectFile(positionals[0], io);
     if (!values.image) throw new UsageError("--image: required (the canvas-sized PNG to turn)");
     if (!values.out) throw new UsageError("--out: required (where to write the PNG)");

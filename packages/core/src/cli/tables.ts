@@ -1,8 +1,5 @@
-import { parseArgs } from "node:util";
-import { compileTables } from "../compileTables.ts";
-import { tablesDocument } from "../tablesDocument.ts";
+import { parseCommandArgs } from "./args.ts";
 import type { Command } from "./io.ts";
-import { readEffectFile } from "./readEffectFile.ts";
 
 /** `skewsmith tables EFFECT.json`: prints the tables document (spec §8) as one JSON object. */
 export const tablesCommand: Command = {
@@ -19,10 +16,11 @@ options:
   --pretty   indent the JSON for reading
 `,
   async run(args, io) {
-    const { positionals, values } = parseArgs({ args, allowPositionals: true, options: { pretty: { type: "boolean" } } });
+    const { positionals, values } = parseCommandArgs(args, { pretty: { type: "boolean" } });
+    // The work is loaded when a command runs, so that --help and --version start at once.
+    const [{ readEffectFile }, { tablesText }] = await Promise.all([import("./readEffectFile.ts"), import("../tablesDocument.ts")]);
     const effect = await readEffectFile(positionals[0], io);
-    const doc = tablesDocument(compileTables(effect));
-    io.stdout(`${JSON.stringify(doc, null, values.pretty ? 2 : undefined)}\n`);
+    io.stdout(tablesText(effect, { pretty: values.pretty }));
     return 0;
   },
 };

@@ -40,8 +40,11 @@ export function exportedValue(s: number, sign: Sign, registerBits: number | null
 
 function antisymmetry(frames: readonly FrameTables[], key: "h" | "v"): Availability {
   const what = key === "h" ? "row" : "column";
+  const checked = new Set<Int32Array>(); // frames share tables: check each distinct one once
   for (const f of frames) {
     const t = f[key];
+    if (checked.has(t)) continue;
+    checked.add(t);
     const n = t.length;
     for (let i = 0; i < n >> 1; i++) {
       const j = n - 1 - i;
@@ -60,23 +63,40 @@ function antisymmetry(frames: readonly FrameTables[], key: "h" | "v"): Availabil
   return { available: true, reason: `${key}[${key === "h" ? "H" : "W"}−1−i] = −${key}[i] in every frame` };
 }
 
-/** Looks at every compiled frame once: range of the exported values, antisymmetry of h and v, and which frames are identical. */
+/**
+ * Looks at every compiled frame once: range of the exported values, antisymmetry of h and v, and which frames are
+ * identical. Frames share tables (one per coefficient from compileShifts), so each distinct table is read once.
+ */
 export function analyseExport(tables: CompiledTables<FrameTables>, sign: Sign, registerBits: number | null): ExportAnalysis {
   const { frames, effect } = tables;
   let min = 0;
   let max = 0;
-  for (const f of frames)
-    for (const t of [f.h, f.v])
-      for (const s of t) {
-        const x = exportedValue(s, sign, registerBits);
+  // A number for each distinct table content: equal tables in different arrays still count as equal.
+  const contentIds = new Map<string, number>();
+  const tableIds = new Map<Int32Array, number>();
+  const idOf = (t: Int32Array): number => {
+    let id = tableIds.get(t);
+    if (id === undefined) {
+      for (let i = 0; i < t.length; i++) {
+        const x = exportedValue(t[i], sign, registerBits);
         if (x < min) min = x;
         if (x > max) max = x;
       }
+      const text = t.join(",");
+      id = contentIds.get(text);
+      if (id === undefined) {
+        id = contentIds.size;
+        contentIds.set(text, id);
+      }
+      tableIds.set(t, id);
+    }
+    return id;
+  };
   const seen = new Map<string, number>();
   const frameIndex: number[] = [];
   const storedFrames: number[][] = [];
   for (const f of frames) {
-    const key = `${f.flip ? 1 : 0} ${f.alpha} ${f.beta}|${f.h.join(",")}|${f.v.join(",")}`;
+    const key = `${f.flip ? 1 : 0} ${f.alpha} ${f.beta}|h${idOf(f.h)}|v${idOf(f.v)}`;
     let u = seen.get(key);
     if (u === undefined) {
       u = storedFrames.length;

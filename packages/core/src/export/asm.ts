@@ -36,16 +36,33 @@ function tableLines(dialect: AsmDialect, layout: ExportLayout, t: LayoutTable): 
   if (dialect.align && size > 1) out.push(`${INDENT}${dialect.align(size as 2 | 4)}`);
   if (dialect.objectInfo) out.push(...dialect.objectInfo(t.name, t.bytes).map((l) => INDENT + l));
   out.push(`${t.name}:`);
-  const row = t.dims.length === 2 ? t.dims[1] : t.values.length;
   const per = PER_LINE[size];
   const directive = `${INDENT}${dialect.data[size]}`.padEnd(INDENT.length + 8);
-  for (let start = 0; start < t.values.length; start += row) {
-    if (t.dims.length === 2) out.push(`${c} ${layout.frameNotes[start / row]}`);
-    for (let i = start; i < start + row; i += per) {
-      const ops = t.values.slice(i, Math.min(i + per, start + row)).map((v) => dialect.operand(v, t.type));
-      out.push(`${directive}${ops.join(", ")}`);
-    }
+  const block = (values: readonly number[]) => {
+    const lines: string[] = [];
+    for (let i = 0; i < values.length; i += per)
+      lines.push(
+        `${directive}${values
+          .slice(i, i + per)
+          .map((v) => dialect.operand(v, t.type))
+          .join(", ")}`,
+      );
+    return lines.join("\n");
+  };
+  if (t.rows === null) {
+    out.push(block(t.values));
+    return out;
   }
+  // Each distinct row is formatted once; frames sharing a row share its text.
+  const blocks = new Map<readonly number[], string>();
+  t.rows.forEach((row, u) => {
+    let text = blocks.get(row);
+    if (text === undefined) {
+      text = block(row);
+      blocks.set(row, text);
+    }
+    out.push(`${c} ${layout.frameNotes[u]}`, text);
+  });
   return out;
 }
 

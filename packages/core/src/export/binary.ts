@@ -12,14 +12,32 @@ export function binaryExport(layout: ExportLayout, order: ByteOrder): Uint8Array
   const out = new Uint8Array(bytes);
   const view = new DataView(out.buffer);
   const little = order === "little";
-  for (const { table: t, offset } of placements) {
-    const { bytes: size, signed } = t.type;
-    let at = offset;
-    for (const v of t.values) {
+  const put = (values: readonly number[], at: number, size: number, signed: boolean) => {
+    for (const v of values) {
       if (size === 1) signed ? view.setInt8(at, v) : view.setUint8(at, v);
       else if (size === 2) signed ? view.setInt16(at, v, little) : view.setUint16(at, v, little);
       else signed ? view.setInt32(at, v, little) : view.setUint32(at, v, little);
       at += size;
+    }
+  };
+  for (const { table: t, offset } of placements) {
+    const { bytes: size, signed } = t.type;
+    if (t.rows === null) {
+      put(t.values, offset, size, signed);
+      continue;
+    }
+    // Each distinct row is encoded once, then copied to every frame that shares it.
+    const encoded = new Map<readonly number[], Uint8Array>();
+    let at = offset;
+    for (const row of t.rows) {
+      const length = row.length * size;
+      const first = encoded.get(row);
+      if (first) out.copyWithin(at, first.byteOffset, first.byteOffset + length);
+      else {
+        put(row, at, size, signed);
+        encoded.set(row, out.subarray(at, at + length));
+      }
+      at += length;
     }
   }
   return out;

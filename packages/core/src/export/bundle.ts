@@ -1,4 +1,3 @@
-import { zipSync } from "fflate";
 import { compileShifts, compileTables } from "../compileTables.ts";
 import type { Effect } from "../effect.ts";
 import { armSource } from "./arm.ts";
@@ -11,10 +10,11 @@ import { effectFileName } from "./header.ts";
 import { tablesJson } from "./json.ts";
 import { layoutFromTables, type ExportLayout } from "./layout.ts";
 import { m68kSource } from "./m68k.ts";
-import { resolveExportOptions, type ExportOptions, type ExportOptionsInput } from "./options.ts";
+import { resolveExportOptions, type ExportOptions, type ExportOptionsInput, type ExportOutput } from "./options.ts";
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Source } from "./z80.ts";
+import { zipArchive } from "./zip.ts";
 
 /** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
 export interface BundleFile {
@@ -28,7 +28,10 @@ export interface ExportBundle {
   readonly label: string;
   readonly options: ExportOptions;
   readonly files: readonly BundleFile[];
-  /** A zip of every file (deflate), with a fixed date so the same effect and options give the same bytes. */
+  /**
+   * A zip of every file (deflate level 1, see export/zip.ts), with a fixed date so the same effect and options give the
+   * same bytes; made when first read, so a caller that only writes the files never pays for it.
+   */
   readonly zip: Uint8Array;
   readonly budget: BudgetReport;
 }
@@ -39,8 +42,11 @@ export const EXPORT_MAX_BYTES = 32 * 1024 * 1024;
 /** Date stamped on every zip entry: the first day a zip (DOS) date can hold, so bundles are reproducible. */
 const ZIP_DATE = new Date(1980, 0, 1, 0, 0, 0);
 
+/** How far exportBundle has got: steps done of the total, and what the step made (the tables, or one output). */
+export type BundleProgress = (done: number, total: number, step: string) => void;
+
 /** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted). */
-export function outputTexts(layout: ExportLayout, json: () => string): BundleFile[] {
+export function outputTexts(layout: ExportLayout, json: () => string, onOutput?: (output: ExportOutput) => void): BundleFile[] {
   const names = outputFiles(layout.label);
   const enc = new TextEncoder();
   const text = (name: string, t: string): BundleFile => ({ name, text: t, bytes: enc.encode(t) });
@@ -74,6 +80,7 @@ export function outputTexts(layout: ExportLayout, json: () => string): BundleFil
         files.push(text(n[0], runtimeSource(layout)));
         break;
     }
+    onOutput?.(output);
   }
   return files;
 }
@@ -82,19 +89,28 @@ export function outputTexts(layout: ExportLayout, json: () => string): BundleFil
  * Makes the export bundle of a validated effect: README.txt, the chosen outputs (C, four assembler dialects, raw
  * binaries, tables document, run-time routine) and the effect document, as files and as one zip. `options.name` is the
  * effect's name (default label and headers). Throws ExportOptionError for a bad or inapplicable option, RangeError when
- * the tables exceed EXPORT_MAX_BYTES.
+ * the tables exceed EXPORT_MAX_BYTES. `onProgress` hears of every step (the tables, then each output), so a long export
+ * can show how far it has got.
  */
-export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): ExportBundle {
+export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, onProgress?: BundleProgress): ExportBundle {
   const resolved = resolveExportOptions(options);
+  const total = resolved.outputs.length + 1;
+  let done = 0;
+  const step = (name: string) => onProgress?.(++done, total, name);
   const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
   const tables = full ?? compileShifts(effect);
+  step("tables");
   const budget = budgetFromTables(tables, resolved);
   if (budget.totalBytes > EXPORT_MAX_BYTES)
     throw new RangeError(
       `export: ${budget.totalBytes} bytes of tables is more than the ${EXPORT_MAX_BYTES} a bundle may hold (32 MiB, the largest cartridge ROM of the targets); use dedupe or half tables, fewer frames or a smaller canvas`,
     );
   const layout = layoutFromTables(tables, resolved);
-  const outputs = outputTexts(layout, () => tablesJson(full ?? compileTables(effect)));
+  const outputs = outputTexts(
+    layout,
+    () => tablesJson(full ?? compileTables(effect)),
+    (output) => step(output),
+  );
   const enc = new TextEncoder();
   const [readmeName, effectName] = alwaysFiles(layout.label);
   const effectText = `${JSON.stringify(effect, null, 2)}\n`;
@@ -105,6 +121,14 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}): 
     ...outputs,
     { name: effectFileName(layout.label), text: effectText, bytes: enc.encode(effectText) },
   ];
-  const zip = zipSync(Object.fromEntries(files.map((f) => [f.name, [f.bytes, { mtime: ZIP_DATE }]])), { level: 6, mtime: ZIP_DATE });
-  return { label: layout.label, options: resolved, files, zip, budget };
+  let zip: Uint8Array | undefined;
+  return {
+    label: layout.label,
+    options: resolved,
+    files,
+    get zip() {
+      return (zip ??= zipArchive(files, ZIP_DATE));
+    },
+    budget,
+  };
 }

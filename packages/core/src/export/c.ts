@@ -2,12 +2,22 @@ import { parameterLines, tableSummaryLines } from "./header.ts";
 import type { ExportLayout, LayoutTable } from "./layout.ts";
 import type { StorageType } from "./storageType.ts";
 
+/**
+ * An integer constant as C source that has the same value and no warning on a compiler with 16-bit int (cc65, SDCC) as
+ * with 32-bit int: a value beyond ±32767 gets an L suffix (U, UL when unsigned), since without one it would be a long
+ * anyway and cc65 warns "Constant is long". −32768 and −2^31 are the negation of a constant one too large for the type,
+ * hence the L there too and the (−2147483647L − 1) spelling (C99 6.4.4.1; from memory).
+ */
+export function cConstant(value: number, unsigned = false): string {
+  if (value >= -32767 && value <= 32767) return String(value);
+  if (unsigned) return value <= 65535 ? `${value}u` : `${value}UL`;
+  if (value === -2147483648) return "(-2147483647L - 1)";
+  return `${value}L`;
+}
+
 /** A value as a C literal of the table's type that means the same on a compiler with 16-bit int (cc65, SDCC) as with 32-bit int. */
 export function cLiteral(value: number, type: StorageType): string {
-  // -2147483648 would be the negation of a literal that fits no 32-bit signed type (C99 6.4.4.1; from memory).
-  if (type.signed && value === -2147483648) return "(-2147483647 - 1)";
-  if (!type.signed && value > 2147483647) return `${value}u`;
-  return String(value);
+  return cConstant(value, !type.signed);
 }
 
 /** Lines of a C block comment. */
@@ -48,26 +58,27 @@ export function cHeader(layout: ExportLayout): string {
 
 function initializer(layout: ExportLayout, t: LayoutTable): string[] {
   const per = PER_LINE[t.type.bytes];
-  const row = (start: number, end: number, indent: string) => {
+  const row = (values: readonly number[], indent: string) => {
     const out: string[] = [];
-    for (let i = start; i < end; i += per) {
-      const last = Math.min(i + per, end);
-      const ops = t.values.slice(i, last).map((v) => cLiteral(v, t.type));
-      out.push(`${indent}${ops.join(", ")}${last < end ? "," : ""}`);
+    for (let i = 0; i < values.length; i += per) {
+      const last = Math.min(i + per, values.length);
+      const ops = values.slice(i, last).map((v) => cLiteral(v, t.type));
+      out.push(`${indent}${ops.join(", ")}${last < values.length ? "," : ""}`);
     }
-    return out;
+    return out.join("\n");
   };
-  if (t.dims.length === 1) return row(0, t.values.length, "    ");
+  if (t.rows === null) return [row(t.values, "    ")];
+  // Each distinct row is formatted once; frames sharing a row share its text.
+  const blocks = new Map<readonly number[], string>();
   const out: string[] = [];
-  const n = t.dims[1];
-  for (let start = 0, u = 0; start < t.values.length; start += n, u++) {
-    out.push(
-      `    /* ${layout.frameNotes[u]} */`,
-      "    {",
-      ...row(start, start + n, "        "),
-      `    }${start + n < t.values.length ? "," : ""}`,
-    );
-  }
+  t.rows.forEach((values, u) => {
+    let text = blocks.get(values);
+    if (text === undefined) {
+      text = row(values, "        ");
+      blocks.set(values, text);
+    }
+    out.push(`    /* ${layout.frameNotes[u]} */`, "    {", text, `    }${u + 1 < t.rows!.length ? "," : ""}`);
+  });
   return out;
 }
 

@@ -32,6 +32,32 @@ export interface TablePlan {
 /** One exported table with its values, flattened row-major, every one within the table's type. */
 export interface LayoutTable extends TablePlan {
   readonly values: readonly number[];
+  /**
+   * The per-frame tables ([frame][entry]) row by row, one row per stored frame, or null for the one-dimensional tables.
+   * Frames whose compiled tables are shared (compileShifts shares one per coefficient) share one row array here too, so
+   * that the printers format each distinct row once: a 4096-frame track has only a few hundred distinct rows.
+   */
+  readonly rows: readonly (readonly number[])[] | null;
+}
+
+/** A layout table whose flat `values` are made from its rows only when something reads them. */
+function layoutTable(plan: TablePlan, rows: readonly (readonly number[])[] | null, flat: readonly number[] | null): LayoutTable {
+  let values = flat;
+  const table = { ...plan, rows } as Omit<LayoutTable, "values">;
+  return Object.defineProperty(table, "values", { enumerable: true, get: () => (values ??= rows!.flat()) }) as LayoutTable;
+}
+
+/** `f(x)` computed once per distinct `x` (by identity). */
+function memo<K extends object, V>(f: (x: K) => V): (x: K) => V {
+  const seen = new Map<K, V>();
+  return (x) => {
+    let v = seen.get(x);
+    if (v === undefined) {
+      v = f(x);
+      seen.set(x, v);
+    }
+    return v;
+  };
 }
 
 /** A named constant every output defines (`L_FRAMES`, …). */
@@ -262,28 +288,34 @@ export function layoutFromTables(tables: CompiledTables<FrameTables>, options: E
   const frameOf = stored.map((held) => tables.frames[held[0]]);
   const value = (s: number) => exportedValue(s, options.sign, options.registerBits);
 
+  const hRow = memo((t: Int32Array) => Array.from(t.subarray(0, plan.hEntries), value));
+  const vRow = memo((t: Int32Array) => Array.from(t.subarray(0, plan.vEntries), value));
+  // Split tables: the low and high byte of each 16-bit two's complement value.
+  const lo = memo((row: readonly number[]) => row.map((x) => twosComplement(x, 2) & 0xff));
+  const hi = memo((row: readonly number[]) => row.map((x) => twosComplement(x, 2) >> 8));
   const wholeValues = (role: TableRole): number[] => {
     switch (role) {
-      case "h":
-        return frameOf.flatMap((f) => Array.from(f.h.subarray(0, plan.hEntries), value));
-      case "v":
-        return frameOf.flatMap((f) => Array.from(f.v.subarray(0, plan.vEntries), value));
       case "flip":
         return frameOf.map((f) => (f.flip ? 1 : 0));
       case "alpha":
         return frameOf.map((f) => f.alpha);
       case "beta":
         return frameOf.map((f) => f.beta);
-      case "frame":
+      default:
         return [...analysis.frameIndex];
     }
   };
   const tablesOut: LayoutTable[] = plan.plans.map((p) => {
+    if (p.role === "h" || p.role === "v") {
+      const whole = frameOf.map((f) => (p.role === "h" ? hRow(f.h) : vRow(f.v)));
+      return layoutTable(p, p.part === "whole" ? whole : whole.map(p.part === "lo" ? lo : hi), null);
+    }
     const whole = wholeValues(p.role);
-    // Split tables: the low and high byte of each 16-bit two's complement value.
-    const values =
-      p.part === "whole" ? whole : whole.map((x) => (p.part === "lo" ? twosComplement(x, 2) & 0xff : twosComplement(x, 2) >> 8));
-    return { ...p, values };
+    return layoutTable(
+      p,
+      null,
+      p.part === "whole" ? whole : whole.map((x) => (p.part === "lo" ? twosComplement(x, 2) & 0xff : twosComplement(x, 2) >> 8)),
+    );
   });
 
   const frameNotes = stored.map((held) => {

@@ -47,14 +47,19 @@ export function runtimeSource(layout: ExportLayout): string {
   const bound = kMax * Math.max(tRow, tCol) + 2 ** (s + 1);
   const wide = bound > 2 ** 31 - 1;
   const acc = `${L}_acc`;
-  const half = String(2 ** F);
-  const mask = String(2 ** s - 1);
+  // Beyond 32767, written as shifts of the accumulator type: such a literal would be a long on 16-bit int compilers
+  // (cc65 warns) and, with an L suffix, a conversion from long on 64-bit hosts (gcc -Wconversion warns).
+  const half = 2 ** F <= 32767 ? String(2 ** F) : `((${acc})1 << ${F})`;
+  const mask = 2 ** s - 1 <= 32767 ? String(2 ** s - 1) : `(((${acc})1 << ${s}) - 1)`;
 
   const out: string[] = [];
   if (options.sign === "scroll") out.push("/* scroll sign: the register takes the negated shift */", "r = -r;");
   let result = `(${E})r`;
   if (options.registerBits !== null) {
-    const m = options.registerBits === 32 ? "" : ` & 0x${(2 ** options.registerBits - 1).toString(16).toUpperCase()}u`;
+    const m =
+      options.registerBits === 32
+        ? ""
+        : ` & 0x${(2 ** options.registerBits - 1).toString(16).toUpperCase()}${options.registerBits > 16 ? "UL" : "u"}`;
     result = `(${E})((uint32_t)r${m})`;
     out.push(
       `/* ${options.registerBits}-bit register: wrap modulo 2^${options.registerBits} (conversion to uint32_t is modulo 2^32, C99 6.3.1.3) */`,
@@ -73,7 +78,9 @@ export function runtimeSource(layout: ExportLayout): string {
           "(whole tables, also when the export stores half tables or low/high bytes).",
       ),
       ...wrapWords(`Call ${fn}(alpha, beta, h, v) with room for ${H} elements in h and ${W} in v, of type ${E}.`),
-      `Accumulator: ${wide ? "int64_t (this format's products need more than 31 bits)" : "int32_t"}.`,
+      ...wrapWords(
+        `Accumulator: ${wide ? "int64_t (this format's products need more than 31 bits; cc65 has no 64-bit type, so on the 6502 keep the tables instead)" : "int32_t"}.`,
+      ),
     ]),
     "#include <stdint.h>",
     "",

@@ -92,6 +92,26 @@ export const CASES: readonly ExportCase[] = [
     options: { label: "odd", registerBits: 9, element: "uint16" },
     element: "uint16",
   },
+  // A 16-bit register: negative shifts wrap to 65535 and below, beyond a 16-bit int's range, so the C needs "u" suffixes
+  // (uint16, values up to 2^16 − 1); Q1.15 coefficients make the run-time routine's rounding constant 2^15 = 32768.
+  {
+    id: "wrap16, Q1.15, 16-bit register",
+    effect: {
+      canvas: { width: 40, height: 30 },
+      pivot: { x: 20, y: 15 },
+      angles: { list: [0, 20, -20, 75] },
+      fixedPoint: { bits: 16, fraction: 15 },
+    },
+    options: { label: "wrap16", registerBits: 16 },
+    element: "uint16",
+  },
+  // A 32-bit register: −1 wraps to 4294967295, which needs "UL".
+  {
+    id: "wrap32, 32-bit register",
+    effect: { canvas: { width: 12, height: 10 }, pivot: { x: 6, y: 5 }, angles: { list: [0, 45, -45] } },
+    options: { label: "wrap32", registerBits: 32 },
+    element: "uint32",
+  },
 ];
 
 /** The expected-model options of a case (defaults as the issue states them). */

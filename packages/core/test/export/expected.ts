@@ -1,6 +1,19 @@
-// What the issue says each exported label must hold, computed straight from the tables document (spec §8) and the
-// export options as the issue words them; the exporters are checked against this through the real tools.
-import type { TablesDocument } from "../../src/tablesDocument.ts";
+// What the issue says each exported label must hold, computed straight from the reference frames (test/helpers/reference.ts,
+// the spec's words in plain BigInt and 60-digit arithmetic) and the export options as the issue words them; the exporters
+// are checked against this through the real tools.
+
+/** What the expected labels are computed from: the effect's canvas and format, and every frame's tables. */
+export interface ExpectedSource {
+  readonly effect: { readonly canvas: { readonly width: number; readonly height: number }; readonly fixedPoint: { readonly bits: number } };
+  readonly frames: readonly {
+    readonly index: number;
+    readonly flip: boolean;
+    readonly alpha: number;
+    readonly beta: number;
+    readonly h: readonly number[];
+    readonly v: readonly number[];
+  }[];
+}
 
 export interface ExpectedTable {
   readonly name: string;
@@ -34,12 +47,12 @@ export function exported(s: number, o: Pick<ExpectedOptions, "sign" | "registerB
   return x === 0 ? 0 : x;
 }
 
-function antisymmetric(tables: number[][]): boolean {
+function antisymmetric(tables: (readonly number[])[]): boolean {
   return tables.every((t) => t.every((x, i) => t[t.length - 1 - i] === -x));
 }
 
 /** Every label with its values, in the order the issue gives (h, v, flip, alpha, beta, then the frame index), split into lo/hi bytes where asked. */
-export function expectedTables(doc: TablesDocument, o: ExpectedOptions): ExpectedTable[] {
+export function expectedTables(doc: ExpectedSource, o: ExpectedOptions): ExpectedTable[] {
   const frames = doc.frames;
   let stored = frames.map((f) => f.index);
   let index: number[] | null = null;

@@ -20,6 +20,10 @@ export const TOOLS = {
   "z80-unknown-coff-nm": "binutils-z80",
   gcc: "gcc",
   "g++": "g++",
+  cl65: "cc65",
+  sdcc: "sdcc",
+  "arm-none-eabi-gcc": "gcc-arm-none-eabi",
+  "m68k-linux-gnu-gcc": "gcc-m68k-linux-gnu",
   unzip: "unzip",
 } as const;
 export type Tool = keyof typeof TOOLS;

@@ -1,15 +1,17 @@
 // Every export is checked against the real tools it is meant for: ca65/ld65 (cc65), GNU as for m68k, ARM and Z80,
 // gcc and g++, and unzip. The bytes the tools put under each label must equal what the issue says the label holds,
-// computed from the bundle's tables document (expected.ts), and the raw binaries.
+// computed from the reference frames (refFrames: the spec's words in BigInt and 60-digit arithmetic, not the core) by
+// expected.ts, and the raw binaries.
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { parseEffect } from "../../src/effect.ts";
+import { parseEffect, type Effect } from "../../src/effect.ts";
 import { exportBundle, type ExportBundle } from "../../src/export/bundle.ts";
 import type { TablesDocument } from "../../src/tablesDocument.ts";
 import { CASES, expectedOptions } from "./cases.ts";
 import { cType, encode, expectedTables, exported, type ExpectedTable } from "./expected.ts";
+import { refFrames, type RefFrameTables } from "../helpers/reference.ts";
 import { ld65Labels, nmSymbols, run, runBytes, runProgram, toolPath, TOOLS, type Tool } from "./toolchain.ts";
 
 const TIMEOUT = 120_000;
@@ -33,6 +35,7 @@ describe.each(CASES)("export of $id", (c) => {
   let dir: string;
   let bundle: ExportBundle;
   let doc: TablesDocument;
+  let ref: { effect: Effect; frames: RefFrameTables[] };
   let tables: ExpectedTable[];
   const L = c.options.label;
   const o = expectedOptions(c);
@@ -43,16 +46,18 @@ describe.each(CASES)("export of $id", (c) => {
     bundle = exportBundle(parseEffect(c.effect), c.options);
     for (const f of bundle.files) writeFileSync(file(f.name), f.bytes);
     doc = JSON.parse(readFileSync(file(`${L}.json`), "utf8")) as TablesDocument;
-    tables = expectedTables(doc, o);
+    const effect = parseEffect(c.effect);
+    ref = { effect, frames: refFrames(effect) };
+    tables = expectedTables(ref, o);
   }, TIMEOUT);
   afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
   /** Checks the constants an assembler defined, as its own symbol output reports them. */
   function expectConstants(symbols: Map<string, number>) {
-    expect(symbols.get(`${L}_FRAMES`)).toBe(doc.frames.length);
-    expect(symbols.get(`${L}_WIDTH`)).toBe(doc.effect.canvas.width);
-    expect(symbols.get(`${L}_HEIGHT`)).toBe(doc.effect.canvas.height);
-    expect(symbols.get(`${L}_FRACTION`)).toBe(doc.effect.fixedPoint.fraction);
+    expect(symbols.get(`${L}_FRAMES`)).toBe(ref.frames.length);
+    expect(symbols.get(`${L}_WIDTH`)).toBe(ref.effect.canvas.width);
+    expect(symbols.get(`${L}_HEIGHT`)).toBe(ref.effect.canvas.height);
+    expect(symbols.get(`${L}_FRACTION`)).toBe(ref.effect.fixedPoint.fraction);
   }
 
   /** Checks that the bytes at each label's offset in `image` are the label's expected values in the given byte order. */
@@ -64,6 +69,18 @@ describe.each(CASES)("export of $id", (c) => {
       expect(hex(image.subarray(at!, at! + want.length)), t.name).toBe(hex(want));
     }
   }
+
+  it("the bundle's tables document holds the reference frames: angles, flips, coefficients and whole tables", () => {
+    expect(doc.frames).toHaveLength(ref.frames.length);
+    doc.frames.forEach((f, i) => {
+      const r = ref.frames[i];
+      expect([f.index, f.flip, f.alpha, f.beta, f.saturated], `frame ${i}`).toEqual([r.index, r.flip, r.alpha, r.beta, r.saturated]);
+      expect(f.degrees).toBe(r.degrees);
+      expect(f.residualDegrees).toBe(r.residualDegrees);
+      expect(f.h, `frame ${i} h`).toEqual(r.h);
+      expect(f.v, `frame ${i} v`).toEqual(r.v);
+    });
+  });
 
   it(
     "ca65 assembles it for the 6502 and the 65816 without a warning, and ld65 puts the expected bytes under every label",
@@ -211,9 +228,9 @@ ${body.join("\n")}
           expect(got.values, `${program}: ${t.name}`).toEqual(t.values);
           expect(got.bytes).toBe(t.values.length * t.bytes);
         }
-        expect(printed.FRAMES).toBe(doc.frames.length);
-        expect(printed.WIDTH).toBe(doc.effect.canvas.width);
-        expect(printed.HEIGHT).toBe(doc.effect.canvas.height);
+        expect(printed.FRAMES).toBe(ref.frames.length);
+        expect(printed.WIDTH).toBe(ref.effect.canvas.width);
+        expect(printed.HEIGHT).toBe(ref.effect.canvas.height);
       }
     },
     TIMEOUT,
@@ -223,22 +240,22 @@ ${body.join("\n")}
     "the run-time routine, compiled strictly as C99 and C++, computes every frame's whole h and v tables from kα and kβ",
     () => {
       const E = `${c.element}_t`;
-      const H = doc.effect.canvas.height;
-      const W = doc.effect.canvas.width;
+      const H = ref.effect.canvas.height;
+      const W = ref.effect.canvas.width;
       const list = (xs: number[]) => xs.map((x) => (x === -2147483648 ? "(-2147483647 - 1)" : String(x))).join(", ");
       writeFileSync(
         file("run_frames.c"),
         `#include <stdio.h>
 #include "${L}_runtime.c"
 
-static const int32_t alphas[${doc.frames.length}] = { ${list(doc.frames.map((f) => f.alpha))} };
-static const int32_t betas[${doc.frames.length}] = { ${list(doc.frames.map((f) => f.beta))} };
+static const int32_t alphas[${ref.frames.length}] = { ${list(ref.frames.map((f) => f.alpha))} };
+static const int32_t betas[${ref.frames.length}] = { ${list(ref.frames.map((f) => f.beta))} };
 
 int main(void)
 {
     static ${E} h[${H}], v[${W}];
     int f, i;
-    for (f = 0; f < ${doc.frames.length}; f++) {
+    for (f = 0; f < ${ref.frames.length}; f++) {
         ${L}_frame_tables(alphas[f], betas[f], h, v);
         printf("[[");
         for (i = 0; i < ${H}; i++) printf("%s%lld", i ? "," : "", (long long)h[i]);
@@ -254,12 +271,36 @@ int main(void)
       run("g++", [...STRICT_CXX, "-c", "-o", "runtime.cxx.o", `${L}_runtime.c`], dir);
       run("gcc", [...STRICT_C, "-o", "run_frames", "run_frames.c"], dir);
       const lines = runProgram(file("run_frames"), dir).trim().split("\n");
-      expect(lines).toHaveLength(doc.frames.length);
+      expect(lines).toHaveLength(ref.frames.length);
       lines.forEach((line, f) => {
         const [h, v] = JSON.parse(line) as [number[], number[]];
-        expect(h, `frame ${f} h`).toEqual(doc.frames[f].h.map((s) => exported(s, o)));
-        expect(v, `frame ${f} v`).toEqual(doc.frames[f].v.map((s) => exported(s, o)));
+        expect(h, `frame ${f} h`).toEqual(ref.frames[f].h.map((s) => exported(s, o)));
+        expect(v, `frame ${f} v`).toEqual(ref.frames[f].v.map((s) => exported(s, o)));
       });
+    },
+    TIMEOUT,
+  );
+
+  it(
+    "the C tables and the run-time routine compile without a warning for the targets: cc65, SDCC (Z80, SM83), ARM Thumb and m68k gcc",
+    () => {
+      // 16-bit int on cc65 and SDCC: constants beyond ±32767 need their L suffix, or cc65 warns "Constant is long".
+      const compilers: [Tool, string[]][] = [
+        ["cl65", ["-t", "none", "-c"]],
+        ["sdcc", ["-mz80", "-c"]],
+        ["sdcc", ["-msm83", "-c"]],
+        ["arm-none-eabi-gcc", ["-mthumb", ...STRICT_C, "-c"]],
+        ["m68k-linux-gnu-gcc", [...STRICT_C, "-c"]],
+      ];
+      const runtime = readFileSync(file(`${L}_runtime.c`), "utf8");
+      // cc65 has no 64-bit integer type: a format whose products need one keeps its tables on the 6502 (the file says so).
+      const needs64 = runtime.includes("typedef int64_t");
+      if (needs64) expect(runtime.replace(/\n \* /g, " ")).toContain("cc65 has no 64-bit type");
+      for (const [tool, flags] of compilers) {
+        const tag = `${tool}${flags[0]}`.replace(/[^\w]/g, "_");
+        run(tool, [...flags, "-o", `${tag}.tables.o`, `${L}.c`], dir);
+        if (!(tool === "cl65" && needs64)) run(tool, [...flags, "-o", `${tag}.runtime.o`, `${L}_runtime.c`], dir);
+      }
     },
     TIMEOUT,
   );

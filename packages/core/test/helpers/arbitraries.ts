@@ -11,7 +11,23 @@ import {
   type FrameTables,
 } from "../../src/index.ts";
 
-/** Any valid effect on a small canvas (at most `maxSide` pixels a side) with one frame at any angle. */
+/**
+ * Angles where the spec's rules change (§2): the quarter turns, just past them (the first angle that flips), half a
+ * degree past them, and either side of the half turn (−180° normalises to 180°).
+ */
+export const BOUNDARY_ANGLES = [90, -90, 90.0001, -90.0001, 90.5, -90.5, 179.9, -179.9, 180, -180] as const;
+
+/**
+ * Angles that really turn: multiples of 1/8° in ±720° (every eighth of a degree of two whole turns either way, so every
+ * quadrant, the flip and the normalisation are drawn alike), or one of the boundary angles. A plain fc.double would
+ * mostly draw 0 and tiny values, which turn nothing.
+ */
+export const turningAngle: fc.Arbitrary<number> = fc.oneof(
+  { weight: 4, arbitrary: fc.integer({ min: -720 * 8, max: 720 * 8 }).map((n) => n / 8) },
+  { weight: 1, arbitrary: fc.constantFrom(...BOUNDARY_ANGLES) },
+);
+
+/** Any valid effect on a small canvas (at most `maxSide` pixels a side) with one frame at a turning angle. */
 export function smallEffect(options: { maxSide?: number; edges?: "wrap" | "clip"; centred?: boolean } = {}): fc.Arbitrary<Effect> {
   const maxSide = options.maxSide ?? 20;
   return fc
@@ -20,7 +36,7 @@ export function smallEffect(options: { maxSide?: number; edges?: "wrap" | "clip"
       height: fc.integer({ min: 1, max: maxSide }),
       px: fc.nat(),
       py: fc.nat(),
-      angle: fc.double({ min: -720, max: 720, noNaN: true }),
+      angle: turningAngle,
       bits: fc.constantFrom<Bits>(8, 16, 32),
       fraction: fc.nat(),
       rounding: fc.constantFrom(...ROUNDINGS),

@@ -4,8 +4,10 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 
-/** The real `skewsmith` binary of this package. */
+/** The real `skewsmith` binary of this package (it runs the build, dist/cli.mjs). */
 const BIN = fileURLToPath(new URL("../../bin/skewsmith.mjs", import.meta.url));
+/** The same command line run from its TypeScript source. */
+const SOURCE = fileURLToPath(new URL("./sourceCli.mjs", import.meta.url));
 
 export interface CliResult {
   readonly code: number;
@@ -13,13 +15,18 @@ export interface CliResult {
   readonly stderr: string;
 }
 
-/** Runs `node bin/skewsmith.mjs …args` in `cwd` and collects its exit code and both streams. */
-export function skewsmith(args: readonly string[], cwd: string): Promise<CliResult> {
+/** Runs `node bin/skewsmith.mjs …args` (or, with `from: "source"`, the TypeScript source) in `cwd` and collects its exit code and both streams. */
+export function skewsmith(args: readonly string[], cwd: string, from: "build" | "source" = "build"): Promise<CliResult> {
   return new Promise((resolve) => {
-    execFile(process.execPath, [BIN, ...args], { cwd, encoding: "utf8", maxBuffer: 64 << 20 }, (error, stdout, stderr) => {
-      const code = error ? (typeof error.code === "number" ? error.code : -1) : 0;
-      resolve({ code, stdout, stderr });
-    });
+    execFile(
+      process.execPath,
+      [from === "build" ? BIN : SOURCE, ...args],
+      { cwd, encoding: "utf8", maxBuffer: 64 << 20 },
+      (error, stdout, stderr) => {
+        const code = error ? (typeof error.code === "number" ? error.code : -1) : 0;
+        resolve({ code, stdout, stderr });
+      },
+    );
   });
 }
 
@@ -35,6 +42,7 @@ export function workdir() {
       return name;
     },
     run: (...args: string[]) => skewsmith(args, dir),
+    runSource: (...args: string[]) => skewsmith(args, dir, "source"),
     remove: () => rmSync(dir, { recursive: true, force: true }),
   };
 }

@@ -2,7 +2,8 @@
  * A second, deliberately plain reading of the core contract (docs/shear-core.md), written from the spec's words and not
  * from src: BigInt arithmetic for shifts, one pixel at a time for the passes. Tests compare the core with it.
  */
-import type { Rounding } from "../../src/index.ts";
+import { all, create, type BigNumber } from "mathjs";
+import type { Rounding, Sweep } from "../../src/index.ts";
 
 /** s(k, t) = R(k·t / 2^(F+1)) in exact integers (spec §4), via BigInt quotient and remainder. */
 export function refShift(k: number, t: number, fraction: number, rounding: Rounding): number {
@@ -133,4 +134,89 @@ export function idealCentre(c: number, r: number, degrees: number, pivot: { x: n
 /** Values 1 … W·H, every pixel distinct, so each source pixel can be found again in a rendered plane. */
 export function distinctPlane(width: number, height: number): Uint32Array<ArrayBuffer> {
   return Uint32Array.from({ length: width * height }, (_, i) => i + 1);
+}
+
+/** One frame as spec §2–§4 define it, computed by `refFrames`: angles in degrees, coefficients, whole tables. */
+export interface RefFrameTables {
+  readonly index: number;
+  readonly degrees: number;
+  readonly residualDegrees: number;
+  readonly flip: boolean;
+  readonly alpha: number;
+  readonly beta: number;
+  readonly saturated: boolean;
+  readonly h: number[];
+  readonly v: number[];
+}
+
+/** mathjs with 60-digit decimals: tan and sin of the residual angle, evaluated outside the core's floating point. */
+const big = create(all, { number: "BigNumber", precision: 60 });
+
+/** nearest(x·2^F) for x given as a BigNumber, half away from zero (spec §3). */
+function nearestScaled(x: BigNumber, fraction: number): number {
+  const scaled = big.multiply(x, big.pow(big.bignumber(2), big.bignumber(fraction))) as BigNumber;
+  const r = big.floor(big.add(big.abs(scaled), big.bignumber(0.5)) as BigNumber) as BigNumber;
+  const n = Number((scaled.isNegative() ? big.unaryMinus(r) : r).toString());
+  return n === 0 ? 0 : n;
+}
+
+/**
+ * Every frame of a (validated, defaults filled in) effect as the spec's words define it: the angle track (§2), θ reduced
+ * into (−180°, 180°], the half-turn rule, kα = sat(nearest(−tan(θr/2)·2^F)) and kβ = sat(nearest(sin θr·2^F)) with tan and
+ * sin from mathjs BigNumber (sin exact at multiples of 30°, where it is rational: 0, ±1/2, ±1), then the tables of §4 from
+ * refShift. Slow and plain on purpose: the export tests take their expected bytes from here, not from the core.
+ */
+export function refFrames(effect: {
+  readonly canvas: { readonly width: number; readonly height: number };
+  readonly pivot: { readonly x: number; readonly y: number };
+  readonly angles: { readonly list: readonly number[] } | { readonly sweep: Sweep };
+  readonly fixedPoint: { readonly bits: number; readonly fraction: number };
+  readonly rounding: Rounding;
+  readonly halfTurn: "flip" | "shear";
+  readonly columnGroup: number;
+}): RefFrameTables[] {
+  const { bits, fraction } = effect.fixedPoint;
+  const min = -(2 ** (bits - 1));
+  const max = 2 ** (bits - 1) - 1;
+  let angles: number[];
+  if ("list" in effect.angles) angles = [...effect.angles.list];
+  else {
+    const { from, to, frames, easing, includeEnd } = effect.angles.sweep;
+    angles = Array.from({ length: frames }, (_, i) => {
+      const t = includeEnd ? (frames === 1 ? 0 : i / (frames - 1)) : i / frames;
+      return from + (to - from) * (easing === "linear" ? t : (1 - Math.cos(Math.PI * t)) / 2);
+    });
+  }
+  return angles.map((a, index) => {
+    let degrees = a % 360;
+    if (degrees > 180) degrees -= 360;
+    if (degrees <= -180) degrees += 360;
+    if (degrees === 0) degrees = 0;
+    const flip = effect.halfTurn === "flip" && Math.abs(degrees) > 90;
+    const residualDegrees = flip ? (degrees > 0 ? degrees - 180 : degrees + 180) : degrees;
+    // The double's exact decimal digits, so the 60-digit evaluation starts from the very angle the track holds.
+    const radians = big.divide(big.multiply(big.bignumber(residualDegrees.toPrecision(60)), big.pi), big.bignumber(180)) as BigNumber;
+    const rational = [0, 0.5, undefined, 1, undefined, 0.5, 0, -0.5, undefined, -1, undefined, -0.5];
+    const sinExact = residualDegrees % 30 === 0 ? rational[(((residualDegrees % 360) + 360) % 360) / 30] : undefined;
+    const sin = sinExact !== undefined ? big.bignumber(sinExact) : (big.sin(radians) as BigNumber);
+    let saturated = false;
+    const sat = (k: number) => {
+      if (k >= min && k <= max) return k;
+      saturated = true;
+      return k < 0 ? min : max;
+    };
+    const alpha = sat(nearestScaled(big.unaryMinus(big.tan(big.divide(radians, 2) as BigNumber)) as BigNumber, fraction));
+    const beta = sat(nearestScaled(sin, fraction));
+    const { h, v } = refTables(
+      alpha,
+      beta,
+      effect.canvas.width,
+      effect.canvas.height,
+      effect.pivot,
+      fraction,
+      effect.rounding,
+      effect.columnGroup,
+    );
+    return { index, degrees, residualDegrees, flip, alpha, beta, saturated, h, v };
+  });
 }

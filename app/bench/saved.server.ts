@@ -1,0 +1,46 @@
+/** The saved effect as the bench loads it, and its diagnostics computed on the server by the same engine as the worker. */
+import { decodePng } from "@skewsmith/core";
+import type { Tx } from "../db/client.server.ts";
+import type { EffectRow } from "../db/schema.ts";
+import { validDocument } from "../models/effects.server.ts";
+import { getSpriteFile } from "../models/sprites.server.ts";
+import type { BenchState } from "./draft.ts";
+import { diagnosisCost, prepareSource, TrackDiagnosis, type FrameRow } from "./engine.ts";
+
+/** Most pixels × frames the server measures for a page or a JSON answer (about a second of work); beyond it the browser does. */
+export const SERVER_DIAGNOSIS_MAX = 64 * 1024 * 1024;
+
+/** The bench's state of a saved effect row. */
+export function benchState(row: EffectRow): BenchState {
+  return {
+    document: validDocument(row.document),
+    targetProfileId: row.targetProfileId,
+    followsProfile: row.targetProfileId !== null && row.followsProfile,
+    spriteId: row.spriteId,
+    spriteX: row.spriteX,
+    spriteY: row.spriteY,
+    keyPixels: row.keyPixels.map(([x, y]) => [x, y]),
+  };
+}
+
+/** The per-frame diagnostics of the saved effect, or why there are none. */
+export interface SavedDiagnostics {
+  version: number;
+  rows: FrameRow[] | null;
+  /** Pixels measured per frame: the sprite's opaque ones, or the whole canvas. */
+  content: number;
+  masked: boolean;
+  /** Set when the track is too large to measure on the server; the page measures it in the browser. */
+  tooLarge: boolean;
+}
+
+/** Measures the saved effect over its sprite's opaque pixels and its key pixels, as the bench's worker does. */
+export async function savedDiagnostics(db: Tx, row: EffectRow): Promise<SavedDiagnostics> {
+  const state = benchState(row);
+  const file = state.spriteId ? await getSpriteFile(db, state.spriteId) : null;
+  const sprite = file ? decodePng(new Uint8Array(file.png)) : null;
+  const source = prepareSource(state.document, sprite, state.spriteX, state.spriteY, state.keyPixels);
+  const base = { version: row.version, content: source.content, masked: source.mask !== null };
+  if (diagnosisCost(state.document) > SERVER_DIAGNOSIS_MAX) return { ...base, rows: null, tooLarge: true };
+  return { ...base, rows: new TrackDiagnosis(state.document, source).all(), tooLarge: false };
+}

@@ -1,0 +1,56 @@
+import type { Effect } from "../effect.ts";
+import { measureFrame, pointSymmetric, type FrameDiagnostics } from "../frameDiagnostics.ts";
+import type { FrameShifts } from "../render.ts";
+import { frameAt, framesDiagnostics, setFrame, type FrameRange, type FramesDiagnostics } from "./diagnoseFrames.ts";
+import { defaultWorkers, nodePool } from "./nodePool.ts";
+import { mergeDiagnostics, splitFrames } from "./protocol.ts";
+
+/**
+ * Below this many pixel checks (frames × canvas pixels) a track is measured on the calling thread alone: about 0.1 s of
+ * work on the machine the benchmark ran on, less than starting a worker from source takes (bench/diagnostics.bench.ts).
+ */
+export const POOL_MIN_CHECKS = 1 << 26;
+
+/** Ranges per thread: small enough that the threads finish together, large enough that messages cost nothing. */
+const RANGES_PER_THREAD = 8;
+
+/** Options of diagnoseTrack (and compileTables). */
+export interface DiagnoseOptions {
+  /** Measure over these pixels only (one byte per canvas pixel, non-zero = measured). */
+  readonly mask?: Uint8Array;
+  /**
+   * Worker threads to spread a large track over, besides the calling thread: default one less than the cores (Node),
+   * none where there are no worker threads; 0 measures on the calling thread only.
+   */
+  readonly workers?: number;
+}
+
+/**
+ * The diagnostics (spec §6) of every frame of a compiled track, in frame order: on the calling thread, or for a large
+ * track spread over worker threads as well (./nodePool.ts). Either way each frame's figures are the same bits.
+ */
+export function diagnoseTrack(
+  effect: Effect,
+  frames: readonly (FrameShifts & { readonly degrees: number })[],
+  options: DiagnoseOptions = {},
+): FrameDiagnostics[] {
+  const { mask } = options;
+  const { width, height } = effect.canvas;
+  if (mask !== undefined && mask.length !== width * height)
+    throw new RangeError(`mask: ${mask.length} pixels, expected ${width}×${height} = ${width * height}`);
+  const workers = options.workers ?? defaultWorkers();
+  if (!Number.isInteger(workers) || workers < 0 || workers > 256)
+    throw new RangeError(`workers: ${workers} is not allowed; allowed a whole number from 0 to 256`);
+  const symmetric = mask === undefined || pointSymmetric(mask);
+  const local = (range: FrameRange): FramesDiagnostics => {
+    const out = framesDiagnostics(range);
+    for (let i = range.start; i < range.end; i++) setFrame(out, i, measureFrame(frames[i], effect, mask, symmetric));
+    return out;
+  };
+  const all = { start: 0, end: frames.length };
+  const pool = workers > 0 && frames.length > 1 && frames.length * width * height >= POOL_MIN_CHECKS ? nodePool() : null;
+  const result = pool
+    ? mergeDiagnostics(pool.run(effect, mask, splitFrames(frames.length, (workers + 1) * RANGES_PER_THREAD), workers, local))
+    : local(all);
+  return frames.map((_, i) => frameAt(result, i));
+}
