@@ -10,3 +10,12 @@ export const NonceContext = createContext<string | undefined>(undefined);
 export function useNonce(): string | undefined {
   return useContext(NonceContext);
 }
+
+/**
+ * The page's nonce in the browser, for code that must add a <style> or <script> element itself (CodeMirror's themes):
+ * read from the framework's scripts, which carry it (browsers hide the attribute but keep the `nonce` property).
+ */
+export function pageNonce(): string | undefined {
+  if (typeof document === "undefined") return undefined;
+  return document.querySelector<HTMLScriptElement>("script[nonce]")?.nonce || undefined;
+}

@@ -33,11 +33,19 @@ describe("checkOrigin", () => {
     expect(checkOrigin(post({ Origin: "https://evil.example", "Sec-Fetch-Site": "same-origin" }), APP).ok).toBe(false);
   });
 
+  it("lets an API call with no credentials at all through to be answered 401, but never a page's", async () => {
+    const api = new Request(`${APP}/api/v1/tokens`, { method: "POST" });
+    expect(checkOrigin(api, APP)).toEqual({ ok: true, via: "no-credentials" });
+    expect(checkOrigin(new Request(`${APP}/auth/github`, { method: "POST" }), APP).ok).toBe(false);
+    expect(checkOrigin(new Request(`${APP}/api/v1/tokens`, { method: "POST", headers: { Cookie: "s=1" } }), APP).ok).toBe(false);
+  });
+
   it("exempts a bearer token without cookies (no ambient credential a browser could be tricked into sending)", () => {
     expect(checkOrigin(post({ Authorization: "Bearer sk_abc" }), APP)).toEqual({ ok: true, via: "bearer-token" });
     expect(checkOrigin(post({ Authorization: "Bearer sk_abc", Cookie: "s=1" }), APP).ok).toBe(false);
-    expect(checkOrigin(post({ Authorization: "Basic dTpw" }), APP).ok).toBe(false);
-    expect(checkOrigin(post({ Authorization: "Bearer " }), APP).ok).toBe(false);
+    // A malformed Authorization header is the route's to refuse (401): no browser sends one cross-site either.
+    expect(checkOrigin(post({ Authorization: "Basic dTpw" }), APP).ok).toBe(true);
+    expect(checkOrigin(post({ Authorization: "Basic dTpw", Cookie: "s=1" }), APP).ok).toBe(false);
     // A browser page elsewhere that holds a token is still another site.
     expect(checkOrigin(post({ Authorization: "Bearer sk_abc", Origin: "https://evil.example" }), APP).ok).toBe(false);
     expect(checkOrigin(post({ Authorization: "Bearer sk_abc", Origin: APP }), APP).ok).toBe(true);
@@ -50,7 +58,7 @@ describe("the page policy", () => {
     const directives = new Map(csp.split("; ").map((d) => [d.split(" ")[0], d.split(" ").slice(1).join(" ")]));
     expect(directives.get("script-src")).toBe("'self' 'nonce-abc123'");
     expect(csp).not.toMatch(/script-src[^;]*unsafe-inline|unsafe-eval/);
-    expect(directives.get("style-src")).toBe("'self'");
+    expect(directives.get("style-src")).toBe("'self' 'nonce-abc123'");
     expect(directives.get("frame-ancestors")).toBe("'none'");
     expect(directives.get("worker-src")).toBe("'self' blob:");
     expect(directives.get("form-action")).toBe("'self' https://github.com");

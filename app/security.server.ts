@@ -7,7 +7,8 @@
 /** Methods that change nothing by definition; everything else must come from this app's own pages. */
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
-export type OriginVerdict = { ok: true; via: "safe-method" | "origin" | "fetch-metadata" | "bearer-token" } | { ok: false; reason: string };
+export type OriginVerdict =
+  { ok: true; via: "safe-method" | "origin" | "fetch-metadata" | "bearer-token" | "no-credentials" } | { ok: false; reason: string };
 
 /**
  * Whether a request may change something: safe methods always; a request with a bearer token and no cookie (the
@@ -20,10 +21,14 @@ export function checkOrigin(request: Request, appOrigin: string): OriginVerdict 
   if (SAFE_METHODS.has(request.method.toUpperCase())) return { ok: true, via: "safe-method" };
   const headers = request.headers;
   const origin = headers.get("Origin");
-  // A token is sent by a build or a script, never by a browser on its own; a browser page that sends one anyway
-  // still has to be ours.
-  if (/^bearer\s+\S/i.test(headers.get("Authorization") ?? "") && !headers.has("Cookie") && (origin === null || origin === appOrigin))
+  // Credentials in an Authorization header are sent by a build or a script, never by a browser on its own (another
+  // site's page cannot add the header without a preflight this app never grants); a page that sends one anyway
+  // still has to be ours. Without a cookie either, the request carries nothing to abuse: the route asks for
+  // credentials (the API answers 401).
+  if (headers.has("Authorization") && !headers.has("Cookie") && (origin === null || origin === appOrigin))
     return { ok: true, via: "bearer-token" };
+  if (new URL(request.url).pathname.startsWith("/api/") && !headers.has("Cookie") && origin === null)
+    return { ok: true, via: "no-credentials" };
   if (origin !== null) {
     if (origin === appOrigin) return { ok: true, via: "origin" };
     return {
@@ -59,7 +64,8 @@ export const RESOURCE_CSP = "default-src 'none'; frame-ancestors 'none'; base-ur
 /**
  * The Content-Security-Policy of a page. Scripts: this origin's bundles and the framework's inline scripts that
  * carry this response's nonce, nothing else (no 'unsafe-inline', no eval). Styles: the built CSS file; `style`
- * attributes (sizes React sets on canvases and previews) are allowed, `<style>` elements are not. Workers may come
+ * attributes (sizes React sets on canvases and previews) are allowed, and `<style>` elements only with the nonce (the
+ * code editors' themes, through CodeMirror's cspNonce). Workers may come
  * from this origin or a blob (the effect bench computes off the main thread); images also from data: and blob:
  * URLs (canvas snapshots), fonts also from data: URLs (the build inlines small ones). Forms post here, or to the sign-in provider (the OAuth start redirects there).
  */
@@ -69,7 +75,7 @@ export function documentCsp(options: { nonce: string; formTargets: string[]; htt
     "default-src 'self'",
     `script-src 'self' 'nonce-${nonce}'${development ? " 'unsafe-eval'" : ""}`,
     // Vite's development client injects CSS as <style> elements; the production build links one CSS file.
-    development ? "style-src 'self' 'unsafe-inline'" : "style-src 'self'",
+    development ? "style-src 'self' 'unsafe-inline'" : `style-src 'self' 'nonce-${nonce}'`,
     "style-src-attr 'unsafe-inline'",
     "img-src 'self' data: blob:",
     // The build inlines the smallest font subsets into the CSS as data: URLs.

@@ -14,7 +14,7 @@ import {
   projectExportSources,
 } from "../exports.server.ts";
 import { createTokenForm } from "../forms.ts";
-import { effectAccess, projectAccess, teamAccess } from "../guards.server.ts";
+import { effectAccess, NOT_FOUND_MESSAGE, projectAccess, teamAccess } from "../guards.server.ts";
 import { readJson } from "../http.server.ts";
 import { createApiToken, getApiToken, listApiTokens, revokeApiToken, type ApiTokenListItem } from "../models/apiTokens.server.ts";
 import { listEffects, saveEffectDocument } from "../models/effects.server.ts";
@@ -129,7 +129,7 @@ export async function getProjectEffects({ caller, params }: ApiContext): Promise
 /** A live effect the caller may reach with `needed`; a deleted one is "not there" (404), as for the lists. */
 async function liveEffect(context: ApiContext, needed: "viewer" | "editor") {
   const access = await effectAccess(context.caller.user, context.params.effectId, needed);
-  if (access.effect.deletedAt) throw new ApiError(404, "This effect does not exist, or you are not a member of its team.");
+  if (access.effect.deletedAt) throw new ApiError(404, NOT_FOUND_MESSAGE);
   return access;
 }
 

@@ -96,7 +96,11 @@ describe("an effect's export download", () => {
     expect(res.status).toBe(400);
     expect(res.headers.get("content-type")).toMatch(/^application\/json/);
     expect(await res.json()).toEqual({
-      error: { field: "registerBits", message: "registerBits: 64 is not allowed; allowed a whole number from 1 to 32, or none" },
+      error: {
+        field: "registerBits",
+        message: "registerBits: 64 is not allowed; allowed a whole number from 1 to 32, or none",
+        requestId: res.headers.get("X-Request-Id"),
+      },
     });
   });
 
@@ -104,7 +108,7 @@ describe("an effect's export download", () => {
     for (const path of [`/effects/${beacon.id}/export.zip`, `/effects/${gone.id}/export.zip`, `/effects/not-an-id/export.zip`]) {
       const res = await (path.includes(gone.id) ? viewer : outsider).get(path);
       expect(res.status, path).toBe(404);
-      expect((await res.json()).error.message, path).toMatch(/does not exist|was deleted/);
+      expect((await res.json()).error.message, path).toMatch(/There is nothing here, or it belongs to a team you are not in\.|was deleted/);
     }
     const visitor = await caller(null).get(`/effects/${beacon.id}/export.zip`);
     expect(visitor.status).toBe(302);

@@ -214,7 +214,7 @@ describe("skewsmith pull", () => {
 
     it("an unknown id, someone else's effect, and a malformed id", async () => {
       const missing = await pull(["--server", appUrl(), "--effect", "00000000-0000-4000-8000-000000000000", "--out", out, "--force"]);
-      expectFailure(missing, /no such effect: This effect does not exist, or you are not a member of its team\./);
+      expectFailure(missing, /no such effect: There is nothing here, or it belongs to a team you are not in\./);
       const theirs = await pull(["--server", appUrl(), "--effect", foreign.id, "--out", out, "--force"]);
       expect(theirs.stderr).toBe(missing.stderr);
       expectFailure(await pull(["--server", appUrl(), "--effect", "../teams", "--out", out]), /--effect: "\.\.\/teams" is not allowed/, 2);

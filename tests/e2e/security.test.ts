@@ -42,13 +42,26 @@ describe("the page policy in the browser", () => {
     for (const width of [1280, 1024]) {
       const { context, page } = await signInAs(browser, owner, { viewport: { width, height: 900 } });
       const violations = await watchViolations(page);
-      for (const path of ["/", `/teams/${team.id}`, `/projects/${project.id}`, `/effects/${effect.id}`, "/dev/mailbox"]) {
+      const pages = [
+        "/",
+        `/teams/${team.id}`,
+        `/teams/${team.id}/members`,
+        `/teams/${team.id}/profiles`,
+        `/projects/${project.id}`,
+        `/projects/${project.id}/sprites`,
+        `/projects/${project.id}/activity`,
+        `/effects/${effect.id}`,
+        "/settings",
+        "/docs/api",
+        "/dev/mailbox",
+      ];
+      for (const path of pages) {
         await page.goto(path);
         await page.waitForLoadState("networkidle");
         expect(await violations(), `${path} at ${width}`).toEqual([]);
       }
       // The sprite image and the fonts came through the policy.
-      await page.goto(`/effects/${effect.id}`);
+      await page.goto(`/projects/${project.id}/sprites`);
       await expect
         .poll(() =>
           page

@@ -2,6 +2,7 @@
 import { HighlightStyle, syntaxHighlighting } from "@codemirror/language";
 import { EditorView } from "@codemirror/view";
 import { tags as t } from "@lezer/highlight";
+import { pageNonce } from "../../nonce.ts";
 
 const theme = EditorView.theme(
   {
@@ -32,4 +33,8 @@ const highlight = HighlightStyle.define([
   { tag: t.standard(t.variableName), color: "#d7b4f3" },
 ]);
 
-export const benchEditorTheme = [theme, syntaxHighlighting(highlight)];
+/**
+ * The editors' look, and the page's policy nonce for the <style> element CodeMirror adds (the page's
+ * Content-Security-Policy allows no other): read where the editors run, in the browser.
+ */
+export const benchEditorTheme = [theme, syntaxHighlighting(highlight), EditorView.cspNonce.of(pageNonce() ?? "")];
