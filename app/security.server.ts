@@ -1,7 +1,7 @@
 /**
  * Web security rules that hold for every response and every state-changing request, whatever route handles it
  * (pages, resource routes, the JSON API, static files). The server (app/serverHandler.server.ts, server/app.ts)
- * applies them, so a new route inherits them without doing anything; see docs/decisions/0006.
+ * applies them, so a new route inherits them without doing anything; see docs/decisions/0011.
  */
 
 /** Methods that change nothing by definition; everything else must come from this app's own pages. */
