@@ -60,6 +60,24 @@ const FIELDS = [
   "labelPrefix",
 ] as const;
 
+/** Fields of the form that take one value (the dialect checkboxes take a list). */
+const SINGLE = [...FIELDS, "sign", "registerBits", "element", "split", "half", "dedupe", "version"] as const;
+
+/**
+ * What is wrong with the form's shape before its values are read: a single-valued field sent twice, or a file
+ * where text belongs (the same rule as parseForm in app/forms.ts). Empty when the shape is right.
+ */
+export function profileFormShapeErrors(form: FormData): Record<string, string> {
+  const errors: Record<string, string> = {};
+  for (const name of SINGLE) {
+    const all = form.getAll(name);
+    if (all.some((v) => typeof v !== "string")) errors[name] = `“${name}” must be text, not a file.`;
+    else if (all.length > 1) errors[name] = `The form sent “${name}” ${all.length} times; it takes one value.`;
+  }
+  if (form.getAll("dialects").some((v) => typeof v !== "string")) errors.dialects = "“dialects” must be text, not a file.";
+  return errors;
+}
+
 /**
  * The submitted profile form as the input of targetProfileInput: checkboxes become lists and booleans, an empty
  * register width means none, a register width that is not a whole number stays as typed (so the check names it).

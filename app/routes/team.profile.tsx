@@ -31,7 +31,7 @@ import {
   listProfileEffects,
   updateTargetProfile,
 } from "../models/targetProfiles.server.ts";
-import { profileFormValues, type ProfileFormValues } from "../profiles/form.ts";
+import { profileFormShapeErrors, profileFormValues, type ProfileFormValues } from "../profiles/form.ts";
 import { profileFormOptions } from "../profiles/options.ts";
 import { requireTeamProfile } from "../profiles/routes.server.ts";
 import { profileValues } from "../profiles/values.ts";
@@ -70,6 +70,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   switch (intent) {
     case "save-profile": {
       const values = profileFormValues(form);
+      const shapeErrors = profileFormShapeErrors(form);
+      if (Object.keys(shapeErrors).length > 0) return data<SaveResult>({ ok: false, intent, errors: shapeErrors, values }, { status: 400 });
       const expectedVersion = wholeField(form, "version");
       if (expectedVersion === null)
         return data<SaveResult>(

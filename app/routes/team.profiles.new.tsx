@@ -8,7 +8,7 @@ import { errorsFor } from "../forms.ts";
 import { requireTeamRole } from "../guards.server.ts";
 import { readForm } from "../http.server.ts";
 import { createTargetProfile } from "../models/targetProfiles.server.ts";
-import { profileFormValues, type ProfileFormValues } from "../profiles/form.ts";
+import { profileFormShapeErrors, profileFormValues, type ProfileFormValues } from "../profiles/form.ts";
 import { profileFormOptions } from "../profiles/options.ts";
 import { starterProfile } from "../profiles/starters.ts";
 import { BLANK_PROFILE, profileValues } from "../profiles/values.ts";
@@ -41,6 +41,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const intent = String(form.get("intent") ?? "");
   if (intent !== "create-profile") return unknownIntent(intent);
   const values = profileFormValues(form);
+  const shapeErrors = profileFormShapeErrors(form);
+  if (Object.keys(shapeErrors).length > 0) return data({ ok: false, intent, errors: shapeErrors, values }, { status: 400 });
   let profileId = "";
   const result = await attempt(intent, async () => {
     profileId = (await createTargetProfile(db(), { ...values, teamId: team.id, actorId: user.id })).id;

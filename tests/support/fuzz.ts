@@ -116,7 +116,17 @@ function wrongValues(spec: FieldSpec, w: World): fc.Arbitrary<Value[] | null> {
     case "uuid":
       return fc.oneof(
         one(
-          fc.constantFrom("", "not-a-uuid", "../../etc/passwd", uuidOfNothing, `${uuidOfNothing}\u0000`, KB100, "__proto__", "constructor"),
+          fc.constantFrom(
+            // "" only where the id is required: an optional choice (a select's "none") may be empty.
+            ...(spec.optional ? [] : [""]),
+            "not-a-uuid",
+            "../../etc/passwd",
+            uuidOfNothing,
+            `${uuidOfNothing}\u0000`,
+            KB100,
+            "__proto__",
+            "constructor",
+          ),
         ),
         ...(spec.foreign ? [one(fc.constant(spec.foreign(w)))] : []),
         ...common,
