@@ -45,7 +45,9 @@ const http = createServer((req, res) => {
 // Slow or stalled clients cannot hold connections open for long.
 http.headersTimeout = 20_000;
 http.requestTimeout = 60_000;
-http.keepAliveTimeout = 5_000;
+// Idle keep-alive connections stay open a minute (common practice behind proxies): a client that reuses one just as
+// the server drops it sees a reset, and a longer idle window makes that race rare; idle sockets cost little.
+http.keepAliveTimeout = 65_000;
 
 http.on("error", (error) => {
   line("error", "the server could not listen", { host, port, error: { code: error.code, message: error.message } });

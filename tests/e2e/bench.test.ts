@@ -43,8 +43,10 @@ describe("the effect bench, for an editor", () => {
     // Without a sprite the table measures every canvas pixel, and the preview starts paused on frame 0, pass 3.
     await expect.poll(() => page.locator("#frame-table-heading").textContent()).toContain("all 360 canvas pixels");
     expect(await page.getByRole("button", { name: "Play" }).getAttribute("aria-pressed")).toBe("false");
+    // The address gains the view once the page has hydrated: wait for it rather than read it once.
+    await expect.poll(() => search(page).get("zoom")).toMatch(/^[1-9]\d*$/);
     const zoom = Number(search(page).get("zoom"));
-    expect(await bufferSize(page)).toEqual([20 * zoom, 18 * zoom]);
+    await expect.poll(() => bufferSize(page)).toEqual([20 * zoom, 18 * zoom]);
     expect(await page.getByTestId("photosensitivity-caution").textContent()).toContain("photosensitive epilepsy");
 
     // Attach the sprite and place it two pixels from the left edge.
