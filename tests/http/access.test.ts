@@ -28,7 +28,70 @@ const ADDRESSES = (w: World) => [
     theirs: w.foreign.effect.id,
     file: true,
   },
+  {
+    what: "effect diagnostics",
+    path: (id: string) => `/effects/${id}/diagnostics.json`,
+    mine: w.effect.id,
+    theirs: w.foreign.effect.id,
+    file: true,
+  },
+  {
+    what: "frame PNG",
+    path: (id: string) => `/effects/${id}/frames/0.png?pass=2`,
+    mine: w.effect.id,
+    theirs: w.foreign.effect.id,
+    file: true,
+  },
+  { what: "contact sheet", path: (id: string) => `/effects/${id}/frames.png`, mine: w.effect.id, theirs: w.foreign.effect.id, file: true },
+  { what: "effect bundle", path: (id: string) => `/effects/${id}/export.zip`, mine: w.effect.id, theirs: w.foreign.effect.id, file: true },
+  {
+    what: "project bundle",
+    path: (id: string) => `/projects/${id}/export.zip`,
+    mine: w.project.id,
+    theirs: w.foreign.project.id,
+    file: true,
+  },
+  {
+    what: "sprite list",
+    path: (id: string) => `/projects/${id}/sprites.json`,
+    mine: w.project.id,
+    theirs: w.foreign.project.id,
+    file: true,
+  },
+  { what: "API projects", path: (id: string) => `/api/v1/teams/${id}/projects`, mine: w.team.id, theirs: w.foreign.team.id, file: true },
+  {
+    what: "API effects",
+    path: (id: string) => `/api/v1/projects/${id}/effects`,
+    mine: w.project.id,
+    theirs: w.foreign.project.id,
+    file: true,
+  },
+  { what: "API effect", path: (id: string) => `/api/v1/effects/${id}`, mine: w.effect.id, theirs: w.foreign.effect.id, file: true },
+  {
+    what: "API effect bundle",
+    path: (id: string) => `/api/v1/effects/${id}/export.zip`,
+    mine: w.effect.id,
+    theirs: w.foreign.effect.id,
+    file: true,
+  },
+  {
+    what: "API project bundle",
+    path: (id: string) => `/api/v1/projects/${id}/export.zip`,
+    mine: w.project.id,
+    theirs: w.foreign.project.id,
+    file: true,
+  },
   { what: "team page", path: (id: string) => `/teams/${id}`, mine: w.team.id, theirs: w.foreign.team.id, file: false },
+  { what: "members page", path: (id: string) => `/teams/${id}/members`, mine: w.team.id, theirs: w.foreign.team.id, file: false },
+  { what: "profiles page", path: (id: string) => `/teams/${id}/profiles`, mine: w.team.id, theirs: w.foreign.team.id, file: false },
+  { what: "sprites page", path: (id: string) => `/projects/${id}/sprites`, mine: w.project.id, theirs: w.foreign.project.id, file: false },
+  {
+    what: "activity page",
+    path: (id: string) => `/projects/${id}/activity`,
+    mine: w.project.id,
+    theirs: w.foreign.project.id,
+    file: false,
+  },
   { what: "project page", path: (id: string) => `/projects/${id}`, mine: w.project.id, theirs: w.foreign.project.id, file: false },
   { what: "effect page", path: (id: string) => `/effects/${id}`, mine: w.effect.id, theirs: w.foreign.effect.id, file: false },
   { what: "project data", path: (id: string) => `/projects/${id}.data`, mine: w.project.id, theirs: w.foreign.project.id, file: false },
@@ -52,6 +115,11 @@ describe("access to every address with data", () => {
         if (a.what === "project data") {
           // The app's scripts get the redirect as data (202 with the target), as the framework sends it.
           expect(response.status, a.what).toBe(202);
+          continue;
+        }
+        if (a.what.startsWith("API")) {
+          // The API asks for credentials instead of sending anyone to a page.
+          expect(response.status, `${a.what} ${id}`).toBe(401);
           continue;
         }
         expect(response.status, `${a.what} ${id}`).toBe(302);

@@ -55,11 +55,12 @@ export async function makeWorld(db: Db, base: string, githubUrl: string): Promis
   await deleteEffect(db, { effectId: deleted.id, actorId: owner.id });
   const foreignTeam = await makeTeam(db, { owner: stranger });
   const foreignProject = await makeProject(db, { team: foreignTeam, actor: stranger });
+  const foreignSprite = await makeSprite(db, { project: foreignProject, actor: stranger });
   const foreign = {
     team: foreignTeam,
     project: foreignProject,
-    effect: await makeEffect(db, { project: foreignProject, actor: stranger }),
-    sprite: await makeSprite(db, { project: foreignProject, actor: stranger }),
+    effect: await makeEffect(db, { project: foreignProject, actor: stranger, sprite: foreignSprite }),
+    sprite: foreignSprite,
   };
   const as = {
     owner: await signedIn(base, githubUrl, owner),
