@@ -5,12 +5,16 @@
  */
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { createDb } from "../../app/db/client.server.ts";
+import { createApiToken } from "../../app/models/apiTokens.server.ts";
 import { makeWorld, snapshot, type World } from "../support/world.ts";
 
 const db = createDb(process.env.DATABASE_URL!, { max: 2 });
 let world: World;
+let token: { id: string; secret: string };
 beforeAll(async () => {
   world = await makeWorld(db, inject("appUrl"), inject("githubUrl"));
+  const made = await createApiToken(db, { userId: world.owner.id, name: "Origin test", scope: "write", expiresAt: null });
+  token = { id: made.item.id, secret: made.token };
 });
 afterAll(() => db.$client.end());
 
@@ -22,6 +26,22 @@ const CHANGES = (w: World): [string, Record<string, string>][] => [
   [`/projects/${w.project.id}`, { intent: "create-effect", name: "Forged effect" }],
   [`/projects/${w.project.id}`, { intent: "archive-project" }],
   [`/projects/${w.project.id}.data`, { intent: "delete-effect", effectId: w.effect.id }],
+  [`/effects/${w.effect.id}`, { intent: "save", version: String(w.effect.version), canvasWidth: "8" }],
+  [`/projects/${w.project.id}/sprites`, { intent: "upload-sprite", name: "Forged sprite" }],
+  [
+    `/projects/${w.project.id}/sprites`,
+    { intent: "rename-sprite", spriteId: w.sprite.id, name: "Forged", version: String(w.sprite.version) },
+  ],
+  [`/projects/${w.project.id}/sprites`, { intent: "delete-sprite", spriteId: w.sprite.id, version: String(w.sprite.version) }],
+  [`/teams/${w.team.id}/profiles/new`, { name: "Forged profile" }],
+  [`/teams/${w.team.id}/profiles`, { intent: "duplicate-profile", profileId: w.profile.id }],
+  [`/teams/${w.team.id}/profiles/${w.profile.id}`, { intent: "save-profile", name: "Forged", version: String(w.profile.version) }],
+  [`/teams/${w.team.id}/profiles/${w.profile.id}`, { intent: "delete-profile", confirmed: "yes", version: String(w.profile.version) }],
+  [`/teams/${w.team.id}/profiles/${w.profile.id}/delete`, { intent: "delete-profile", confirmed: "yes" }],
+  [`/teams/${w.team.id}/members`, { intent: "invite", email: "forged@example.com", role: "owner" }],
+  [`/teams/${w.team.id}/members/${w.viewer.id}/remove`, { intent: "remove-member", userId: w.viewer.id }],
+  ["/settings", { intent: "create-token", name: "Forged token", scope: "write" }],
+  ["/settings", { intent: "revoke-token", tokenId: token.id }],
   ["/sign-out", {}],
   ["/auth/github", { next: "/" }],
 ];
@@ -49,6 +69,35 @@ describe("a state-changing request from anywhere but the app's own pages", () =>
     expect(await snapshot(db, world)).toBe(before);
     // The owner is still signed in: the forged sign-out did nothing.
     expect((await world.as.owner.fetch("/")).status).toBe(200);
+  });
+
+  it.each(HOSTILE)("to the JSON API with the session cookie is refused (403, JSON) and changes nothing: %s", async (_what, headers) => {
+    const before = await snapshot(db, world);
+    const calls: [string, string, unknown][] = [
+      ["POST", "/api/v1/tokens", { name: "Forged token", scope: "write" }],
+      ["DELETE", `/api/v1/tokens/${token.id}`, undefined],
+      ["PUT", `/api/v1/effects/${world.effect.id}`, { version: world.effect.version, document: { canvas: { width: 8, height: 8 } } }],
+      ["POST", "/api/v1/tables", { canvas: { width: 8, height: 8 }, pivot: { x: 4, y: 4 }, angles: { list: [0, 45] } }],
+    ];
+    for (const [method, path, body] of calls) {
+      const response = await world.as.owner.fetch(path, {
+        method,
+        origin: null,
+        headers: { ...headers, "Content-Type": "application/json" },
+        body: body === undefined ? undefined : JSON.stringify(body),
+      });
+      expect(response.status, `${method} ${path}`).toBe(403);
+      const answer = (await response.json()) as { error: { message: string } };
+      expect(answer.error.message, path).toMatch(/so it was refused/);
+    }
+    expect(await snapshot(db, world)).toBe(before);
+    // The same call with the token alone (no cookie) is let through.
+    const byToken = await fetch(`${inject("appUrl")}/api/v1/tables`, {
+      method: "POST",
+      headers: { Authorization: `Bearer ${token.secret}`, "Content-Type": "application/json" },
+      body: JSON.stringify({ canvas: { width: 8, height: 8 }, pivot: { x: 4, y: 4 }, angles: { list: [0, 45] } }),
+    });
+    expect(byToken.status).toBe(200);
   });
 
   it("is let through from the app's origin, or with Sec-Fetch-Site: same-origin when a browser sends no Origin", async () => {
