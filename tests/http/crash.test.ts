@@ -7,7 +7,8 @@
  *   - PostgreSQL stops under the running app: pages answer 503 with a clear message and a reference, saves are
  *     refused and nothing is half-written; when PostgreSQL is back, the same app process serves again.
  *
- * Save kinds in the mix (phase 2 adds the effect bench's document save and sprite uploads to SAVES).
+ * Save kinds in the mix: effect creation, duplication and rename, project details, the bench's document save,
+ * sprite uploads; and downloads (document, page, export bundle) in flight beside them.
  */
 import { rmSync } from "node:fs";
 import path from "node:path";
@@ -16,7 +17,8 @@ import { migrate } from "drizzle-orm/node-postgres/migrator";
 import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createDb, type Db } from "../../app/db/client.server.ts";
-import { activity, effects, projects } from "../../app/db/schema.ts";
+import { activity, effects, projects, sprites } from "../../app/db/schema.ts";
+import { decodePng } from "@skewsmith/core";
 import { startCluster, type Cluster } from "../../scripts/lib/cluster.ts";
 import { startFakeGitHub, type FakeGitHub } from "../../scripts/fakes/oauth.ts";
 import { ROOT, startApp, type AppProcess } from "../support/appServer.ts";
@@ -62,6 +64,7 @@ beforeAll(async () => {
   github = await startFakeGitHub({ clientId: "crash", clientSecret: "crash-secret" });
   const first = await serve();
   world = await makeWorld(db, first.url, github.url);
+  initialWidth = (world.effect.document as { canvas?: { width?: number } }).canvas?.width;
   await first.stop();
 });
 
@@ -71,6 +74,10 @@ afterAll(async () => {
   await cluster?.stop();
   rmSync(clusterDir, { recursive: true, force: true });
 });
+
+/** The canvas widths the bench saves sent, by the version they were sent from; and the width the effect began with. */
+const sentWidths = new Map<number, Set<number | undefined>>();
+let initialWidth: number | undefined;
 
 /** Every effect in the project was saved whole: each row has the activity line its save wrote in the same transaction. */
 async function checkWhole(projectId: string) {
@@ -84,16 +91,62 @@ async function checkWhole(projectId: string) {
   }
   // No line without its row: as many creations and duplications as effects.
   expect(made.length).toBe(rows.length);
-  // Every rename bumped the version exactly once, in the transaction that wrote its line.
+  // Every rename and every document save bumped the version exactly once, in the transaction that wrote its line.
   const renames = lines.filter((l) => l.action === "effect.renamed").length;
-  expect(rows.reduce((n, e) => n + e.version - 1, 0)).toBe(renames);
+  const saves = lines.filter((l) => l.action === "effect.saved").length;
+  expect(rows.reduce((n, e) => n + e.version - 1, 0)).toBe(renames + saves);
+  // The bench's effect holds a document some save sent from an older version (or the one it was made with).
+  const bench = rows.find((e) => e.id === world.effect.id)!;
+  const width = (bench.document as { canvas?: { width?: number } }).canvas?.width;
+  const possible = new Set([initialWidth]);
+  for (const [version, widths] of sentWidths) if (version < bench.version) for (const w of widths) possible.add(w);
+  expect(possible.has(width), `the document's canvas width ${width} was never sent`).toBe(true);
+  // Every sprite is a whole PNG with its line, and no line lacks its sprite.
+  const spriteRows = await db.select().from(sprites).where(eq(sprites.projectId, projectId));
+  const added = lines.filter((l) => l.action === "sprite.added");
+  expect(added.length, "sprite lines").toBe(spriteRows.length);
+  for (const sprite of spriteRows) {
+    const image = decodePng(new Uint8Array(sprite.png));
+    expect([image.width, image.height], sprite.name).toEqual([sprite.width, sprite.height]);
+    expect(sprite.byteSize, sprite.name).toBe(sprite.png.length);
+    expect(
+      added.some((l) => l.summary.startsWith(`added the sprite ${sprite.name} `)),
+      `${sprite.name} has its line`,
+    ).toBe(true);
+  }
   // Project details: the version counts the saves of details, one line each.
   const [project] = await db.select().from(projects).where(eq(projects.id, projectId));
   const described = lines.filter((l) => l.action === "project.renamed" || l.action === "project.described").length;
   expect(project.version - 1).toBe(described);
 }
 
+/** The index in SAVES of the effect creation, whose acknowledged names are checked after each kill. */
+const CREATE = 2;
 const SAVES: ((c: Client, w: World, k: number, effects: { id: string; version: number }[]) => Promise<Response>)[] = [
+  // The bench's document save, from the version last seen (a stale one is a 409, which saves nothing).
+  async (c, w, k) => {
+    const [e] = await db.select({ version: effects.version }).from(effects).where(eq(effects.id, w.effect.id));
+    sentWidths.set(e.version, (sentWidths.get(e.version) ?? new Set()).add(32 + (k % 64)));
+    return c.post(`/effects/${w.effect.id}`, {
+      intent: "save",
+      version: String(e.version),
+      canvasWidth: String(32 + (k % 64)),
+      canvasHeight: "48",
+      pivotX: "16",
+      pivotY: "24",
+      angleMode: "list",
+      angleList: `0\n${k % 360}\n90`,
+      spriteId: w.sprite.id,
+    });
+  },
+  // A sprite upload (multipart, as the page's file input sends it).
+  (c, w, k) => {
+    const form = new FormData();
+    form.set("intent", "upload-sprite");
+    form.set("name", `Crash sprite ${k}`);
+    form.set("file", new Blob([new Uint8Array(w.sprite.png)], { type: "image/png" }), `crash-${k}.png`);
+    return c.fetch(`/projects/${w.project.id}/sprites`, { method: "POST", body: form });
+  },
   (c, w, k) => c.post(`/projects/${w.project.id}.data`, { intent: "create-effect", name: `Crash ${k}` }),
   (c, w) => c.post(`/projects/${w.project.id}.data`, { intent: "duplicate-effect", effectId: w.effect.id }),
   (c, w, k, list) => {
@@ -116,12 +169,14 @@ const SAVES: ((c: Client, w: World, k: number, effects: { id: string; version: n
   },
   // Exports in flight too.
   (c, w) => c.fetch(`/effects/${w.effect.id}/document.json`),
+  (c, w) => c.fetch(`/effects/${w.effect.id}/export.zip`),
   (c, w) => c.fetch(`/projects/${w.project.id}`),
 ];
 
 describe("the server killed in the middle of saves and exports", () => {
   it("keeps every save whole or absent, keeps every acknowledged save, and serves again after a restart", async () => {
     let acknowledged = 0;
+    const byKind = SAVES.map(() => 0);
     let cut = 0;
     for (let round = 0; round < 3; round++) {
       const app = await serve();
@@ -143,7 +198,8 @@ describe("the server killed in the middle of saves and exports", () => {
           await response.arrayBuffer();
           if (response.status === 200) {
             acknowledged += 1;
-            if (i % SAVES.length === 0) created.push(`Crash ${k}`);
+            byKind[i % SAVES.length] += 1;
+            if (i % SAVES.length === CREATE) created.push(`Crash ${k}`);
           }
           if (++answered >= 4 + round * 6) wake();
         } catch {
@@ -164,7 +220,7 @@ describe("the server killed in the middle of saves and exports", () => {
       }
     }
     console.log(
-      `crash: 3 kills with 80 requests in flight each; ${acknowledged} saves or exports answered 200 before a kill, ${cut} cut off`,
+      `crash: 3 kills with 80 requests in flight each; ${acknowledged} saves or exports answered 200 before a kill, ${cut} cut off; 200s by kind ${byKind.join("/")}`,
     );
     expect(cut, "no request was cut by the kills: the test did not kill mid-flight").toBeGreaterThan(0);
     expect(acknowledged, "no save finished before a kill").toBeGreaterThan(0);
@@ -179,6 +235,9 @@ describe("the server killed in the middle of saves and exports", () => {
       expect(((await download.json()) as { format: string }).format).toBe("skewsmith.effect/1");
       // And it saves again.
       expect((await owner.post(`/projects/${world.project.id}`, { intent: "create-effect", name: "After the crashes" })).status).toBe(200);
+      // The bench's save and a sprite upload, as the mix sends them, go through too.
+      expect((await SAVES[0](owner, world, 7, [])).status, "bench save").toBe(200);
+      expect((await SAVES[1](owner, world, 7, [])).status, "sprite upload").toBe(200);
       await checkWhole(world.project.id);
     } finally {
       await again.stop();
