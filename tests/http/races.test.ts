@@ -8,6 +8,8 @@ import { createDb } from "../../app/db/client.server.ts";
 import { getEffect, listEffects } from "../../app/models/effects.server.ts";
 import { getProject } from "../../app/models/projects.server.ts";
 import { getTeam } from "../../app/models/teams.server.ts";
+import { getTargetProfile } from "../../app/models/targetProfiles.server.ts";
+import { listSprites } from "../../app/models/sprites.server.ts";
 import { listActivity } from "../../app/models/activity.server.ts";
 import { makeWorld, type World } from "../support/world.ts";
 import { messageOf } from "../support/fuzz.ts";
@@ -69,7 +71,11 @@ describe("saves from one version", () => {
     const refused = responses.filter((r) => r.status === 409);
     expect(won).toHaveLength(1);
     expect(refused).toHaveLength(n - 1);
-    for (const r of refused) expect(await messageOf(r, "data")).toMatch(/^Someone changed this (effect|project|team) after you opened it/);
+    for (const r of refused)
+      expect(await messageOf(r, "data")).toMatch(
+        // The bench names who saved (the conflict notice shows their change); the other forms say "Someone".
+        /^(Someone changed (this (effect|project|team|target profile)|\S+) after you opened it|.+ saved this effect \(version \d+\) after you opened version \d+\. Nothing was overwritten)/,
+      );
     return won[0];
   }
 
@@ -92,6 +98,69 @@ describe("saves from one version", () => {
       (a) => a.action === "effect.renamed",
     );
     expect(renames).toHaveLength(3);
+  });
+
+  it("the bench's document save: one of eight wins per version, the document is the winner's, each win recorded once", async () => {
+    for (let round = 0; round < 3; round++) {
+      const { version } = (await getEffect(db, world.effect.id))!;
+      const i = await race(
+        (k) =>
+          world.as.editor.post(`/effects/${world.effect.id}.data`, {
+            intent: "save",
+            version: String(version),
+            canvasWidth: String(40 + round * 8 + k),
+            canvasHeight: "32",
+            pivotX: "16",
+            pivotY: "16",
+            angleMode: "list",
+            angleList: `0\n${10 + k}`,
+            spriteId: world.sprite.id,
+          }),
+        8,
+      );
+      const saved = (await getEffect(db, world.effect.id))!;
+      expect(saved.version).toBe(version + 1);
+      expect(saved.document).toMatchObject({ canvas: { width: 40 + round * 8 + i, height: 32 }, angles: { list: [0, 10 + i] } });
+    }
+    const saves = (await listActivity(db, { teamId: world.team.id, projectId: world.project.id }, 100)).filter(
+      (a) => a.action === "effect.saved",
+    );
+    expect(saves).toHaveLength(3);
+  });
+
+  it("a target profile's edit and a sprite's rename: one winner per version, the rest refused", async () => {
+    const profile = (await getTargetProfile(db, world.profile.id))!;
+    const p = await race(
+      (k) =>
+        world.as.owner.post(`/teams/${world.team.id}/profiles/${world.profile.id}.data`, {
+          intent: "save-profile",
+          version: String(profile.version),
+          name: `Raced profile ${k}`,
+          canvasWidth: "256",
+          canvasHeight: "224",
+          fixedPointBits: "16",
+          fixedPointFraction: "8",
+          rounding: "nearest-away",
+          halfTurn: "flip",
+          edges: "wrap",
+          columnGroup: "1",
+        }),
+      8,
+    );
+    expect((await getTargetProfile(db, world.profile.id))!).toMatchObject({ name: `Raced profile ${p}`, version: profile.version + 1 });
+    const sprite = (await listSprites(db, world.project.id)).find((x) => x.id === world.sprite.id)!;
+    const s = await race(
+      (k) =>
+        world.as.editor.post(`/projects/${world.project.id}/sprites.data`, {
+          intent: "rename-sprite",
+          spriteId: world.sprite.id,
+          version: String(sprite.version),
+          name: `raced-${k}.png`,
+        }),
+      8,
+    );
+    const renamed = (await listSprites(db, world.project.id)).find((x) => x.id === world.sprite.id)!;
+    expect(renamed).toMatchObject({ name: `raced-${s}.png`, version: sprite.version + 1 });
   });
 
   it("project details and the team's name: one winner each, the others told to reload", async () => {
