@@ -12,13 +12,18 @@
  *   mix @100     100 clients for --duration seconds: pages, table computations and exports together
  * and prints requests per second, p50/p95/p99 latency, errors (socket errors, timeouts and non-2xx answers), the CPU
  * time per request of the server process and of PostgreSQL's backends for its database (the measure least moved by
- * other work on a shared machine), and the server's resident memory (RSS) before and after each scenario. Pages are the four signed-in pages; "tables" are
- * the effect route's data request (its loader compiles the shift tables with core); "exports" are effect document
- * downloads.
- *
- * TODO (when the JSON API under /api/v1 lands): replace the "tables" requests by the API's table computation
- * (GET /api/v1/effects/:id/tables with a bearer token), add the export bundle download (zip) and frame PNGs to
- * "exports", and add the bench's document saves (POST with the version) to the mix.
+ * other work on a shared machine), and the server's resident memory (RSS) before and after each scenario. Pages are
+ * the four signed-in pages (home, team, project, effect bench). The mix is, per request:
+ *   45% pages                  as above, with the session cookie
+ *   20% tables                 POST /api/v1/tables with an effect document, a bearer token (what a build does)
+ *   10% export bundles         GET /api/v1/effects/:id/export.zip with a bearer token
+ *   10% frame PNGs             GET /effects/:id/frames/N.png?pass=P of effects with a sprite, with the cookie
+ *    5% effect documents       GET /effects/:id/document.json
+ *   10% document saves         PUT /api/v1/effects/:id from the version last answered: each save effect is leased
+ *                              to one request at a time, so a 409 here is an error, not a race the mix made
+ * and prints how many of each were sent and how many failed. The API's per-token rate limit is raised for the run
+ * (RATE_LIMIT_API): this measures the work behind the limiter, which at its default would answer most of 100
+ * clients with 429.
  *
  * --baseline <git ref> also serves that commit (extracted with git archive into .tmp/bench/, built there with this
  * checkout's node_modules, on a database of its own): every scenario is cut into 5-second rounds that alternate
@@ -40,6 +45,7 @@ import { migrate } from "drizzle-orm/node-postgres/migrator";
 import { compassRose } from "../app/demo/art.ts";
 import { createDb, type Db } from "../app/db/client.server.ts";
 import type { Project, TargetProfile, Team, User } from "../app/db/schema.ts";
+import { createApiToken } from "../app/models/apiTokens.server.ts";
 import { createDbSessionStorage } from "../app/sessions.server.ts";
 import { startCluster } from "../scripts/lib/cluster.ts";
 import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam, makeUser } from "../tests/factories.ts";
@@ -71,9 +77,26 @@ interface Target {
 
 interface World {
   cookies: string[];
+  /** Bearer tokens of editors (write scope), for the API. */
+  tokens: string[];
   pages: string[];
   tables: string[];
-  exports: string[];
+  bundles: string[];
+  frames: string[];
+  documents: string[];
+  /** Effects only the mix's saves write to, with the version each is at. */
+  saves: { id: string; version: number; busy: boolean }[];
+}
+
+/** One request of a scenario; `done` sees its answer. */
+interface Req {
+  kind: string;
+  method?: "GET" | "POST" | "PUT";
+  path: string;
+  /** Sent instead of the client's cookie when present (the API's bearer calls carry no cookie). */
+  headers?: Record<string, string>;
+  body?: string;
+  done?: (status: number, body: string) => void;
 }
 
 interface Outcome {
@@ -91,6 +114,8 @@ interface Outcome {
   cpuDatabasePerRequest: number;
   rssBefore: number;
   rssAfter: number;
+  /** Requests sent and failed (not 2xx) by kind. */
+  kinds: Map<string, { sent: number; failed: number }>;
 }
 
 function log(message: string): void {
@@ -158,6 +183,7 @@ async function seed(db: Db, secret: string): Promise<World> {
     );
   const projects: Project[] = [];
   const effects: string[] = [];
+  const withSprite: string[] = [];
   for (let p = 0; p < 12; p++) {
     const project = await makeProject(db, {
       team,
@@ -177,8 +203,20 @@ async function seed(db: Db, secret: string): Promise<World> {
         targetProfile: e % 3 === 0 ? undefined : profiles[e % profiles.length],
       });
       effects.push(effect.id);
+      if (e % 2 === 0) withSprite.push(effect.id);
     }
   }
+  // Effects only the saves of the mix write to, each leased to one request at a time.
+  const saveProject = await makeProject(db, { team, actor: owner, name: "Bench saves" });
+  const saves: World["saves"] = [];
+  for (let k = 0; k < 24; k++) {
+    const effect = await makeEffect(db, { project: saveProject, actor: owner, name: `Saved ${k + 1}`, document: DOCUMENTS[0] });
+    saves.push({ id: effect.id, version: effect.version, busy: false });
+  }
+  const tokens: string[] = [];
+  for (const [i, m] of members.entries())
+    if (i === 0 || i % 5 !== 0)
+      tokens.push((await createApiToken(db, { userId: m.id, name: "Bench build", scope: "write", expiresAt: null })).token);
   for (const m of members) {
     const own = await makeTeam(db, { owner: m, name: `${m.login} studio` });
     const project = await makeProject(db, { team: own, actor: m, name: "Scratch" });
@@ -199,8 +237,12 @@ async function seed(db: Db, secret: string): Promise<World> {
       ...projects.map((p) => `/projects/${p.id}`),
       ...effects.filter((_, i) => i % 4 === 0).map((id) => `/effects/${id}`),
     ],
-    tables: effects.map((id) => `/effects/${id}.data`),
-    exports: effects.map((id) => `/effects/${id}/document.json`),
+    tokens,
+    tables: DOCUMENTS.map((d) => JSON.stringify(d)),
+    bundles: effects.map((id) => `/api/v1/effects/${id}/export.zip`),
+    frames: withSprite.flatMap((id) => [0, 5, 17].map((n) => `/effects/${id}/frames/${n}.png?pass=${n % 4}`)),
+    documents: effects.map((id) => `/effects/${id}/document.json`),
+    saves,
   };
 }
 
@@ -249,6 +291,7 @@ async function startServer(target: Target, databaseUrl: string, secret: string, 
         GITHUB_CLIENT_SECRET: "bench-secret",
         GITHUB_OAUTH_URL: "http://127.0.0.1:9",
         GITHUB_API_URL: "http://127.0.0.1:9/api",
+        RATE_LIMIT_API: "1000000/60",
         SKEWSMITH_BUILD_DIR: "",
         // The request log is part of what a production server does, so it stays on; it goes nowhere here.
       },
@@ -335,14 +378,16 @@ interface Raw {
   errors: number;
   rssBefore: number;
   rssAfter: number;
+  kinds: Map<string, { sent: number; failed: number }>;
 }
 
 async function run(
   server: Running,
   world: World,
-  options: { clients: number; seconds: number; paths: () => string; signedIn?: boolean },
+  options: { clients: number; seconds: number; next: () => Req; signedIn?: boolean },
 ): Promise<Raw> {
   const latencies: number[] = [];
+  const kinds = new Map<string, { sent: number; failed: number }>();
   const rssBefore = server.rss();
   const cpuBefore = [cpuMs(server.child.pid!), databaseCpuMs(server.database)];
   let next = 0;
@@ -351,7 +396,24 @@ async function run(
     connections: options.clients,
     duration: options.seconds,
     timeout: 10,
-    requests: [{ method: "GET", setupRequest: (req) => ({ ...req, path: options.paths() }) }],
+    requests: [
+      {
+        method: "GET",
+        setupRequest(req, context) {
+          const r = options.next();
+          (context as { req?: Req }).req = r;
+          const k = kinds.get(r.kind) ?? { sent: 0, failed: 0 };
+          kinds.set(r.kind, { ...k, sent: k.sent + 1 });
+          return { ...req, method: r.method ?? "GET", path: r.path, headers: r.headers ?? req.headers, body: r.body ?? "" };
+        },
+        onResponse(status, body, context) {
+          const r = (context as { req?: Req }).req;
+          if (!r) return;
+          if (status < 200 || status > 299) kinds.get(r.kind)!.failed += 1;
+          r.done?.(status, body);
+        },
+      },
+    ],
     setupClient(client) {
       if (options.signedIn !== false) client.setHeaders({ cookie: world.cookies[next++ % world.cookies.length] });
       client.on("response", (_status: number, _bytes: number, responseTime: number) => latencies.push(responseTime));
@@ -366,6 +428,7 @@ async function run(
     errors: result.errors + result.timeouts + result.non2xx,
     rssBefore,
     rssAfter: server.rss(),
+    kinds,
   };
 }
 
@@ -387,6 +450,13 @@ function outcome(name: string, clients: number, parts: Raw[]): Outcome {
     cpuDatabasePerRequest: parts.reduce((n, p) => n + p.cpuDatabase, 0) / Math.max(1, requests),
     rssBefore: parts[0].rssBefore,
     rssAfter: parts.at(-1)!.rssAfter,
+    kinds: parts.reduce((all, p) => {
+      for (const [kind, k] of p.kinds) {
+        const a = all.get(kind) ?? { sent: 0, failed: 0 };
+        all.set(kind, { sent: a.sent + k.sent, failed: a.failed + k.failed });
+      }
+      return all;
+    }, new Map<string, { sent: number; failed: number }>()),
   };
 }
 
@@ -394,21 +464,45 @@ async function drive(server: Running, world: World, name: string, options: Param
   return outcome(name, options.clients, [await run(server, world, options)]);
 }
 
-const pick = (list: string[]) => () => list[Math.floor(Math.random() * list.length)];
+const pick = <T>(list: T[]): T => list[Math.floor(Math.random() * list.length)];
 
 /** The scenarios, in order. */
 function scenarios(world: World): [string, Parameters<typeof drive>[3]][] {
-  const pages = pick(world.pages);
-  const mix = () => {
+  const page = (): Req => ({ kind: "pages", path: pick(world.pages) });
+  const bearer = () => ({ authorization: `Bearer ${pick(world.tokens)}`, "content-type": "application/json" });
+  const save = (): Req => {
+    const free = world.saves.filter((x) => !x.busy);
+    if (free.length === 0) return page();
+    const target = pick(free);
+    target.busy = true;
+    const width = 16 + Math.floor(Math.random() * 48);
+    return {
+      kind: "saves",
+      method: "PUT",
+      path: `/api/v1/effects/${target.id}`,
+      headers: bearer(),
+      body: JSON.stringify({ version: target.version, document: { ...JSON.parse(world.tables[0]), canvas: { width, height: 32 } } }),
+      done(status, body) {
+        target.busy = false;
+        if (status === 200) target.version = (JSON.parse(body) as { version: number }).version;
+      },
+    };
+  };
+  const mix = (): Req => {
     const r = Math.random();
-    return r < 0.5 ? pages() : r < 0.8 ? pick(world.tables)() : pick(world.exports)();
+    if (r < 0.45) return page();
+    if (r < 0.65) return { kind: "tables", method: "POST", path: "/api/v1/tables", headers: bearer(), body: pick(world.tables) };
+    if (r < 0.75) return { kind: "bundles", path: pick(world.bundles), headers: { authorization: bearer().authorization } };
+    if (r < 0.85) return { kind: "frames", path: pick(world.frames) };
+    if (r < 0.9) return { kind: "documents", path: pick(world.documents) };
+    return save();
   };
   return [
-    ["floor", { clients: 10, seconds: 10, paths: () => "/healthz", signedIn: false }],
-    ["page alone", { clients: 1, seconds: 10, paths: pages }],
-    ["pages @10", { clients: 10, seconds: 20, paths: pages }],
-    ["pages @20", { clients: 20, seconds: 20, paths: pages }],
-    [`mix @${CLIENTS}`, { clients: CLIENTS, seconds: DURATION, paths: mix }],
+    ["floor", { clients: 10, seconds: 10, next: () => ({ kind: "healthz", path: "/healthz" }), signedIn: false }],
+    ["page alone", { clients: 1, seconds: 10, next: page }],
+    ["pages @10", { clients: 10, seconds: 20, next: page }],
+    ["pages @20", { clients: 20, seconds: 20, next: page }],
+    [`mix @${CLIENTS}`, { clients: CLIENTS, seconds: DURATION, next: mix }],
   ];
 }
 
@@ -425,6 +519,8 @@ function print(label: string, outcomes: Outcome[]): void {
   if (floor)
     for (const o of outcomes.filter((x) => x.name.startsWith("pages")))
       console.log(`  ${o.name}: ${(o.rps / floor.rps).toFixed(3)} of the floor's requests per second`);
+  for (const o of outcomes.filter((x) => x.name.startsWith("mix")))
+    console.log(`  ${o.name} by kind (sent / failed): ${[...o.kinds].map(([kind, k]) => `${kind} ${k.sent} / ${k.failed}`).join(", ")}`);
 }
 
 async function main(): Promise<void> {
@@ -455,7 +551,7 @@ async function main(): Promise<void> {
     // same machine load (other work on the machine comes and goes).
     for (const r of running) {
       log(`warming up ${r.target.label} (5 s)`);
-      await drive(r.server, r.world, "warm-up", { clients: 10, seconds: 5, paths: scenarios(r.world)[4][1].paths });
+      await drive(r.server, r.world, "warm-up", { clients: 10, seconds: 5, next: scenarios(r.world)[4][1].next });
     }
     // With a baseline, each scenario is cut into rounds of ROUND_SECONDS that alternate between the servers, so a
     // burst of other work on the machine falls on both alike; alone, a scenario runs in one go.
