@@ -1,5 +1,10 @@
 import { encode } from "fast-png";
 import { encodePng, type IndexedImage } from "@skewsmith/core";
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import sharp from "sharp";
 import { chunk, ihdr, pngFile, readChunks, readIndexed, SIGNATURE, writeIndexed, writeRgba } from "../../tests/support/pngSpec.ts";
@@ -169,7 +174,7 @@ describe("decodeSprite's limits, checked before any pixel is decoded", () => {
     // A complete chunk layout whose image data stops early (PNG spec §10: the data must hold every row).
     const rows = Buffer.alloc(16 * (1 + 64));
     expect(() => decodeSprite(pngFile(ihdr({ width: 16, height: 16 }), rows.subarray(0, 300)))).toThrow(
-      "The PNG's image data is cut short: it inflates to 300 bytes, but 16 × 16 pixels need 1040.",
+      /image data: ends after 300 of the 1040 bytes/,
     );
   });
 
@@ -177,12 +182,55 @@ describe("decodeSprite's limits, checked before any pixel is decoded", () => {
     // 16 × 16 RGBA needs 1040 bytes; 64 MB of zeros deflate to about 64 KB.
     const bomb = pngFile(ihdr({ width: 16, height: 16 }), Buffer.alloc(64_000_000));
     expect(bomb.length).toBeLessThan(SPRITE_MAX_BYTES);
-    expect(() => decodeSprite(bomb)).toThrow("inflates to more than the 1040 bytes its 16 × 16 header allows");
+    expect(() => decodeSprite(bomb)).toThrow("inflates to more than the 1040 bytes the declared size needs");
+  });
+
+  it("keeps the peak memory of a refused bomb near that of a tiny good file (peak RSS of a process of its own)", () => {
+    // Each file is written here and decoded in a fresh Node process, which reports its peak resident memory
+    // (getrusage's maxrss): the bomb (64 MB of zeros deflated to ~64 KB, declaring 16 × 16) against a good 16 × 16
+    // PNG, in the same run.
+    const dir = mkdtempSync(path.join(tmpdir(), "sprite-bomb-"));
+    const files = {
+      good: pngFile(ihdr({ width: 16, height: 16 }), Buffer.alloc(16 * (1 + 64))),
+      bomb: pngFile(ihdr({ width: 16, height: 16 }), Buffer.alloc(64_000_000)),
+    };
+    const script = `
+      import { readFileSync } from "node:fs";
+      import { decodeSprite } from ${JSON.stringify(fileURLToPath(new URL("./spriteFile.ts", import.meta.url)))};
+      const file = new Uint8Array(readFileSync(process.argv[1]));
+      let refused = false;
+      try { decodeSprite(file); } catch { refused = true; }
+      process.stdout.write(JSON.stringify({ refused, peakKiB: process.resourceUsage().maxRSS }));`;
+    const peak = (name: keyof typeof files) => {
+      const file = path.join(dir, `${name}.png`);
+      writeFileSync(file, files[name]);
+      const out = spawnSync(process.execPath, ["--import", "tsx", "--input-type=module", "-e", script, file], { encoding: "utf8" });
+      expect(out.status, out.stderr).toBe(0);
+      return JSON.parse(out.stdout) as { refused: boolean; peakKiB: number };
+    };
+    try {
+      const good = peak("good");
+      const bomb = peak("bomb");
+      expect(good.refused).toBe(false);
+      expect(bomb.refused).toBe(true);
+      console.log(
+        `bomb peak RSS ${(bomb.peakKiB / 1024).toFixed(1)} MiB against a good file's ${(good.peakKiB / 1024).toFixed(1)} MiB ` +
+          `(the bomb file is ${files.bomb.length} bytes and would inflate to 64 MB)`,
+      );
+      // Inflating the bomb whole adds its 64 MB and more (about 96 MiB measured with 32 KiB input pieces); the bounded
+      // reader stops after one 4 KiB piece, whose output is at most about 4 MiB (measured: 10–17 MiB over the good
+      // file, the inflater's buffers and the garbage collector's slack included). The bound is half the bomb.
+      expect(bomb.peakKiB - good.peakKiB).toBeLessThan(32 * 1024);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it("refuses a palette PNG without a palette, and indices beyond the palette", () => {
     const raw = Buffer.from([0, 0x00]);
-    expect(() => decodeSprite(pngFile(ihdr({ width: 1, height: 1, colourType: 3 }), raw))).toThrow("without a palette");
+    expect(() => decodeSprite(pngFile(ihdr({ width: 1, height: 1, colourType: 3 }), raw))).toThrow(
+      "PLTE: missing; a palette PNG (colour type 3) needs one",
+    );
     const beyond = writeIndexed(
       2,
       1,
