@@ -3,7 +3,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
-import { exportBundle, parseEffect } from "@skewsmith/core";
+import { EXPORT_MAX_BYTES, exportBudget, exportBundle, parseEffect } from "@skewsmith/core";
 import { strFromU8, unzipSync } from "fflate";
 import { afterAll, describe, expect, it } from "vitest";
 import { makeEffect, makeProject, makeTargetProfile, makeTeam, makeUser } from "../tests/factories.ts";
@@ -19,6 +19,7 @@ import {
   planEffectExport,
   planProjectExport,
   projectExportSources,
+  PROJECT_EXPORT_MAX_BYTES,
   type ExportPlan,
 } from "./exports.server.ts";
 import type { ProfileExportSettings } from "./profiles/apply.ts";
@@ -311,6 +312,24 @@ describe("the export of a project", () => {
     // A label at core's length limit still gets its suffix within the limit.
     const long = planProjectExport(p, [source("A"), source("B")], query("label=abcdefghijklmnopqrstuvw"));
     expect(Object.keys(unzipSync(long.build()))).toContain("abcdefghijklmnopqrstu_2/abcdefghijklmnopqrstu_2.h");
+  });
+
+  it("refuses, before building anything, a project whose tables add up to more than 64 MiB, though each effect fits", () => {
+    // 4096 × 4096 over 1500 frames: each effect's tables fit core's 32 MiB bundle limit, three of them do not fit 64 MiB.
+    const big = {
+      canvas: { width: 4096, height: 4096 },
+      pivot: { x: 2048, y: 2048 },
+      angles: { sweep: { from: 0, to: 360, frames: 1500 } },
+    };
+    const one = exportBudget(parseEffect(big), {}).totalBytes;
+    expect(one).toBeLessThan(EXPORT_MAX_BYTES);
+    expect(3 * one).toBeGreaterThan(PROJECT_EXPORT_MAX_BYTES);
+    const plan = planProjectExport({ name: "Huge" }, [source("First", big), source("Second", big), source("Third", big)], {});
+    const refused = problem(() => plan.build());
+    expect(refused.status).toBe(400);
+    expect(refused.message).toBe(
+      `The project's tables come to more than ${PROJECT_EXPORT_MAX_BYTES} bytes (64 MiB) by Third; a project zip holds at most that. Export the biggest effects on their own, or use dedupe or half tables.`,
+    );
   });
 
   it("changes its ETag when any effect is saved, and a project without effects exports only its README", async () => {

@@ -9,6 +9,8 @@ import {
   ExportOptionError,
   REGISTER_BITS,
   checkLabel,
+  EXPORT_MAX_BYTES,
+  exportBudget,
   exportBundle,
   resolveExportOptions,
   type Effect,
@@ -251,6 +253,30 @@ function projectReadme(projectName: string, rows: { name: string; label: string;
 }
 
 /**
+ * Most bytes of tables a project zip may hold over all its effects: twice what one effect's bundle may (core's
+ * EXPORT_MAX_BYTES, 32 MiB), so one request's work and memory stay bounded however many effects a project has.
+ */
+export const PROJECT_EXPORT_MAX_BYTES = 2 * EXPORT_MAX_BYTES;
+
+/** Refuses a project export whose tables add up to more than PROJECT_EXPORT_MAX_BYTES, before any bundle is built. */
+function checkProjectBudget(planned: readonly { source: ExportSource; inputs: EffectInputs }[]): void {
+  let total = 0;
+  for (const p of planned) {
+    try {
+      total += exportBudget(p.inputs.document, p.inputs.input).totalBytes;
+    } catch (error) {
+      if (error instanceof ExportOptionError) throw optionProblem(error, p.source.effect.name);
+      throw error;
+    }
+    if (total > PROJECT_EXPORT_MAX_BYTES)
+      throw new DomainError(
+        `The project's tables come to more than ${PROJECT_EXPORT_MAX_BYTES} bytes (64 MiB) by ${p.source.effect.name}; a project zip holds at most that. Export the biggest effects on their own, or use dedupe or half tables.`,
+        { status: 400 },
+      );
+  }
+}
+
+/**
  * Plans the export of a project: every live effect's bundle (each with its own profile's defaults and the query's
  * options) in a folder named after its label, labels made unique across the project, and a README listing them.
  */
@@ -271,6 +297,7 @@ export function planProjectExport(project: Pick<Project, "name">, sources: reado
     }),
     fileName: `${slug(project.name)}.zip`,
     build: () => {
+      checkProjectBudget(planned);
       const enc = new TextEncoder();
       const entries: Zippable = {};
       const rows = [];
