@@ -87,4 +87,26 @@ describe("targetProfileInput", () => {
     expect(messages.fixedPointBits).toBe("Bits must be one of 8, 16, 32.");
     expect(messages.rounding).toMatch(/Rounding must be one of nearest-away, nearest-up, floor, trunc/);
   });
+
+  it("reads a blank or missing whole number as none, not as 0 (where 0 would be allowed)", () => {
+    const valid = {
+      name: "Blank fraction",
+      canvasWidth: "256",
+      canvasHeight: "224",
+      fixedPointBits: "16",
+      fixedPointFraction: "0",
+      rounding: "nearest-away",
+      halfTurn: "flip",
+      edges: "wrap",
+      columnGroup: "1",
+    };
+    expect(targetProfileInput.safeParse(valid).data?.fixedPointFraction).toBe(0);
+    for (const blank of ["", "   ", undefined]) {
+      const result = targetProfileInput.safeParse({ ...valid, fixedPointFraction: blank });
+      expect(result.success).toBe(false);
+      expect(result.error!.issues.map((i) => [i.path.join("."), i.message])).toEqual([
+        ["fixedPointFraction", "Fraction bits must be a whole number from 0 to 31."],
+      ]);
+    }
+  });
 });

@@ -57,12 +57,19 @@ export function newEffectDocument(profile?: ProfileSettings): Effect {
   });
 }
 
+/**
+ * A whole number from `min` to `max`, typed or sent as text. Blank text is no number (left to itself, coercion would
+ * read it as 0, so an emptied field would save as 0 wherever 0 is allowed).
+ */
 const whole = (min: number, max: number, what: string) =>
-  z.coerce
-    .number({ error: `${what} must be a number.` })
-    .int(`${what} must be a whole number.`)
-    .min(min, `${what} must be from ${min} to ${max}.`)
-    .max(max, `${what} must be from ${min} to ${max}.`);
+  z.preprocess(
+    (v) => (typeof v === "string" && v.trim() === "" ? undefined : v),
+    z.coerce
+      .number({ error: `${what} must be a whole number from ${min} to ${max}.` })
+      .int(`${what} must be a whole number.`)
+      .min(min, `${what} must be from ${min} to ${max}.`)
+      .max(max, `${what} must be from ${min} to ${max}.`),
+  );
 
 /** Longest label prefix of a target profile, in characters: it leaves room for the effect's own name in the label (see profileLabel). */
 export const PROFILE_LABEL_PREFIX_MAX = 12;

@@ -329,7 +329,8 @@ export const TARGETS: FuzzTarget[] = [
               .map((d) => (d as Record<string, unknown>)[key])
               .filter((v) => JSON.stringify(v) !== valid);
           },
-          ...(key === "fixedPoint" ? { optional: true } : {}),
+          // Core fills in a missing format and fixed point (docs/shear-core.md: only canvas, pivot and angles are required).
+          ...(key === "fixedPoint" || key === "format" ? { optional: true } : {}),
         },
       ]),
     ),
