@@ -21,6 +21,7 @@ import {
 } from "@skewsmith/core";
 import { z } from "zod";
 import { descriptionText, nameText } from "../forms.ts";
+import { SPRITE_COLOURS } from "../sprites/colours.ts";
 import { NEW_EFFECT_CANVAS, NEW_EFFECT_FRAMES } from "./display.ts";
 
 /** The settings a target profile fixes for the effects that use it. */
@@ -132,6 +133,18 @@ export const targetProfileInput = z.object({
         ctx.addIssue({ code: "custom", message: `The label prefix must be ${LABEL_ALLOWED}${reason}.` });
       }
     }),
+  /** Most colours a sprite may use on the target; blank (or null) for no limit. */
+  maxColours: z.preprocess(
+    (v) => (v === undefined || v === null || (typeof v === "string" && v.trim() === "") ? null : v),
+    z.coerce
+      .number({
+        error: `The colour limit must be a whole number from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max}, or empty for none.`,
+      })
+      .int(`The colour limit must be a whole number from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max}, or empty for none.`)
+      .min(SPRITE_COLOURS.min, `The colour limit must be from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max} colours, or empty for none.`)
+      .max(SPRITE_COLOURS.max, `The colour limit must be from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max} colours, or empty for none.`)
+      .nullable(),
+  ),
   /** Kept without the options that equal core's defaults, so "nothing chosen" has one form. */
   exportOptions: profileExportOptions.default({}).transform((options) => {
     const kept: ProfileExportOptions = {};

@@ -61,6 +61,7 @@ export const TARGETS: FuzzTarget[] = [
       edges: { kind: "enum", valid: "wrap", values: EDGES },
       columnGroup: { kind: "int", valid: "1", min: 1, max: 4096 },
       labelPrefix: { kind: "token", valid: "rot", optional: true },
+      maxColours: { kind: "int", valid: "16", min: 2, max: 256, optional: true },
     },
   },
   {
@@ -223,6 +224,7 @@ export const TARGETS: FuzzTarget[] = [
       edges: { kind: "enum", valid: "wrap", values: EDGES },
       columnGroup: { kind: "int", valid: "1", min: 1, max: 4096 },
       labelPrefix: { kind: "token", valid: "rot", optional: true },
+      maxColours: { kind: "int", valid: "16", min: 2, max: 256, optional: true },
     },
   },
   {

@@ -175,7 +175,8 @@ function wrongValues(spec: FieldSpec, w: World): fc.Arbitrary<Value[] | null> {
       );
     case "int":
       return fc.oneof(
-        one(fc.constantFrom("", "NaN", "Infinity", "1e308", "-0.5", "1.5", "abc", "9".repeat(400), KB100)),
+        // "" only where the number is required: an optional one left blank means none.
+        one(fc.constantFrom(...(spec.optional ? [] : [""]), "NaN", "Infinity", "1e308", "-0.5", "1.5", "abc", "9".repeat(400), KB100)),
         one(fc.integer({ min: -1e9, max: spec.min - 1 }).map(String)),
         one(fc.integer({ min: spec.max + 1, max: 2e9 }).map(String)),
         ...common,
