@@ -107,6 +107,36 @@ export const effectForm = z.object({ effectId: id("effect") });
 
 export const renameEffectForm = z.object({ effectId: id("effect"), name: name("effect"), version: versionField("effect") });
 
+/** Copying a target profile from the team's list of profiles. */
+export const duplicateProfileForm = z.object({ profileId: id("target profile") });
+
+/** A whole number the page itself filled in (a count it showed); a reload gives a fresh one. */
+const shownCount = (what: string) =>
+  z
+    .string({ error: `The confirmation did not say how many ${what} it showed; ask again.` })
+    .regex(/^\d{1,9}$/, `The confirmation's count of ${what} is not a whole number; ask again.`)
+    .transform(Number);
+
+/** Deleting a target profile: confirmed, with the version and the number of effects the question showed. */
+export const deleteProfileForm = z.object({
+  confirmed: z.literal("yes", { error: "Confirm the deletion first: the page asks how many effects it detaches." }),
+  version: versionField("target profile"),
+  effectCount: shownCount("effects"),
+});
+
+/** The starting profiles ticked on a form (checkboxes: several values under one name), each at most once. */
+const starterKeys = (required: boolean) =>
+  z
+    .array(z.string(), { error: "Tick at least one starting profile to add." })
+    .min(required ? 1 : 0, "Tick at least one starting profile to add.")
+    .refine((keys) => new Set(keys).size === keys.length, "The form sent the same starting profile twice; tick each one once.");
+
+/** Adding starting profiles to a team; which keys exist is checked where they are added (addStarterProfiles). */
+export const addStartersForm = z.object({ starter: starterKeys(true) });
+
+/** The starting profiles a new team begins with (none ticked: none). */
+export const newTeamStartersForm = z.object({ starter: starterKeys(false).default([]) });
+
 /** How long a new API token may last, in days; null means until revoked. */
 export const TOKEN_LIFETIMES = [7, 30, 90, 365] as const;
 export const DEFAULT_TOKEN_LIFETIME = 90;
@@ -162,6 +192,20 @@ function takesList(field: z.ZodType): boolean {
     t = def.innerType ?? def.in;
   }
   return false;
+}
+
+/**
+ * What is wrong with the shape of a form whose fields are read one by one (not through parseForm): one of the
+ * single-valued `names` sent twice, or a file where text belongs. Empty when the shape is right.
+ */
+export function formShapeErrors(form: FormData, names: Iterable<string>): FieldErrors {
+  const problems: FieldErrors = {};
+  for (const name of names) {
+    const all = form.getAll(name);
+    if (all.some((v) => typeof v !== "string")) problems[name] = `“${name}” must be text, not a file.`;
+    else if (all.length > 1) problems[name] = `The form sent “${name}” ${all.length} times; it takes one value.`;
+  }
+  return problems;
 }
 
 /**

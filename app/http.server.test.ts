@@ -1,6 +1,6 @@
 import { isRouteErrorResponse } from "react-router";
 import { describe, expect, it } from "vitest";
-import { formText, readForm, readJson } from "./http.server.ts";
+import { formText, JSON_MAX_DEPTH, nestingDepth, readForm, readJson } from "./http.server.ts";
 
 /** What a thrown `data(…)` carries: its status and message. */
 async function refusal(work: Promise<unknown>): Promise<{ status: number; message: string }> {
@@ -65,6 +65,22 @@ describe("readJson", () => {
     expect((await refusal(readJson(post("a=1", "application/x-www-form-urlencoded")))).status).toBe(415);
     expect((await refusal(readJson(post("{", "application/json")))).status).toBe(400);
     expect((await refusal(readJson(post(new Uint8Array([0x7b, 0xff, 0x7d]), "application/json")))).status).toBe(400);
+  });
+
+  it("refuses JSON nested deeper than the limit before parsing it, naming the limit (400)", async () => {
+    const nested = (n: number) => `${"[".repeat(n)}${"]".repeat(n)}`;
+    expect(await readJson(post(nested(JSON_MAX_DEPTH), "application/json"))).toBeInstanceOf(Array);
+    const refused = await refusal(readJson(post(nested(100_000), "application/json")));
+    expect(refused.status).toBe(400);
+    expect(refused.message).toContain(`at most ${JSON_MAX_DEPTH}`);
+    expect((await refusal(readJson(post(`{"a":${nested(JSON_MAX_DEPTH)}}`, "application/json")))).status).toBe(400);
+  });
+
+  it("counts nesting outside strings only", () => {
+    // Brackets inside strings, escaped quotes included, are text (RFC 8259 §7: a string is quoted, \" escapes a quote).
+    expect(nestingDepth('{"a":"[[[[\\"[[","b":[{"c":"}]"}]}')).toBe(3);
+    expect(nestingDepth('"[[["')).toBe(0);
+    expect(nestingDepth("[[],[[]]]")).toBe(3);
   });
 });
 

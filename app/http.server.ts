@@ -75,7 +75,37 @@ export async function readForm(request: Request, options: { maxBytes?: number } 
   }
 }
 
-/** The request's JSON body: 415 unless it is `application/json`, 413 beyond `maxBytes`, 400 when it does not parse. */
+/** Deepest nesting of lists and objects a JSON body may have: far more than any document of the API needs. */
+export const JSON_MAX_DEPTH = 64;
+
+/**
+ * How deep the lists and objects of JSON text nest, counted without parsing (brackets inside strings do not count), so
+ * that a body of nothing but brackets is refused before anything walks it recursively. Stops counting past the limit.
+ */
+export function nestingDepth(text: string): number {
+  let depth = 0;
+  let deepest = 0;
+  let inString = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (inString) {
+      if (c === 0x5c)
+        i++; // a backslash: the next character is escaped
+      else if (c === 0x22) inString = false;
+    } else if (c === 0x22) inString = true;
+    else if (c === 0x5b || c === 0x7b) {
+      depth++;
+      if (depth > deepest) deepest = depth;
+      if (deepest > JSON_MAX_DEPTH) return deepest;
+    } else if (c === 0x5d || c === 0x7d) depth--;
+  }
+  return deepest;
+}
+
+/**
+ * The request's JSON body: 415 unless it is `application/json`, 413 beyond `maxBytes`, 400 when it is not UTF-8, nests
+ * deeper than JSON_MAX_DEPTH or does not parse.
+ */
 export async function readJson(request: Request, options: { maxBytes?: number } = {}): Promise<unknown> {
   const type = mediaType(request);
   if (type !== "application/json")
@@ -87,6 +117,8 @@ export async function readJson(request: Request, options: { maxBytes?: number } 
   } catch {
     return fail(400, "The body is not valid UTF-8.");
   }
+  const depth = nestingDepth(text);
+  if (depth > JSON_MAX_DEPTH) fail(400, `The body nests lists and objects ${depth} levels deep; at most ${JSON_MAX_DEPTH} are accepted.`);
   try {
     return JSON.parse(text);
   } catch (error) {

@@ -4,7 +4,7 @@
  */
 import { checkEffect, EFFECT_FORMAT, type Effect, type EffectIssue } from "@skewsmith/core";
 import { z } from "zod";
-import { fieldErrors } from "../forms.ts";
+import { fieldErrors, versionField } from "../forms.ts";
 import type { BenchState, DraftField, KeyPixel } from "./draft.ts";
 
 /** Most key pixels one effect may mark: enough for every feature that must read well, few enough to draw on every frame. */
@@ -162,6 +162,9 @@ const fields = z.object({
   keyPixels,
 });
 
+/** The names of the settings form's fields: each takes one value. */
+export const BENCH_FIELDS: readonly string[] = Object.keys(fields.shape);
+
 /** The effect document the fields describe, unchecked (core checks it), and the list's line numbers. */
 export function documentFromFields(f: z.output<typeof fields>): { input: unknown; lines: number[] } {
   const n = (text: string) => typedNumber(text);
@@ -220,7 +223,7 @@ export const benchForm = fields.transform((f, ctx): BenchState => {
 });
 
 /** The save form: the settings and the version they started from. */
-export const saveForm = z.object({ version: z.coerce.number().int().min(1, "The version must be a whole number from 1.") });
+export const saveForm = z.object({ version: versionField("effect") });
 
 /** Field messages of the settings form: one per field, and for the angle list one per bad line (keys "angleList.<line>"). */
 export type BenchErrors = Record<string, string>;

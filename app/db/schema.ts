@@ -193,6 +193,8 @@ export const targetProfiles = pgTable(
       .notNull()
       .default(sql`'{}'::text[]`),
     labelPrefix: text().notNull().default(""),
+    /** Most colours a sprite may use on this target (the background included), 2 to 256; null: no limit. */
+    maxColours: integer(),
     /** Further export options the profile's effects export with by default (core's ExportOptionsInput, validated). */
     exportOptions: jsonb().$type<Record<string, unknown>>().notNull().default({}),
     version: version(),
@@ -202,6 +204,7 @@ export const targetProfiles = pgTable(
     uniqueIndex("target_profiles_team_name_key").on(t.teamId, sql`lower(${t.name})`),
     check("target_profiles_bits_check", sql`${t.fixedPointBits} in (8, 16, 32)`),
     check("target_profiles_fraction_check", sql`${t.fixedPointFraction} >= 0 and ${t.fixedPointFraction} < ${t.fixedPointBits}`),
+    check("target_profiles_max_colours_check", sql`${t.maxColours} is null or ${t.maxColours} between 2 and 256`),
   ],
 );
 

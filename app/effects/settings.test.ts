@@ -87,4 +87,53 @@ describe("targetProfileInput", () => {
     expect(messages.fixedPointBits).toBe("Bits must be one of 8, 16, 32.");
     expect(messages.rounding).toMatch(/Rounding must be one of nearest-away, nearest-up, floor, trunc/);
   });
+
+  it("takes a colour limit from 2 to 256, blank or missing for none, and names the range otherwise", () => {
+    const valid = {
+      name: "Limited",
+      canvasWidth: "160",
+      canvasHeight: "144",
+      fixedPointBits: "16",
+      fixedPointFraction: "8",
+      rounding: "nearest-away",
+      halfTurn: "flip",
+      edges: "wrap",
+      columnGroup: "1",
+    };
+    for (const [given, kept] of [
+      ["4", 4],
+      ["2", 2],
+      ["256", 256],
+      ["", null],
+      [undefined, null],
+    ] as const)
+      expect(targetProfileInput.safeParse({ ...valid, maxColours: given }).data?.maxColours).toBe(kept);
+    for (const wrong of ["1", "257", "3.5", "many", "-4"]) {
+      const result = targetProfileInput.safeParse({ ...valid, maxColours: wrong });
+      expect(result.error?.issues.map((i) => i.path.join("."))).toEqual(["maxColours"]);
+      expect(result.error!.issues[0].message).toMatch(/2 to 256.*or empty for none/);
+    }
+  });
+
+  it("reads a blank or missing whole number as none, not as 0 (where 0 would be allowed)", () => {
+    const valid = {
+      name: "Blank fraction",
+      canvasWidth: "256",
+      canvasHeight: "224",
+      fixedPointBits: "16",
+      fixedPointFraction: "0",
+      rounding: "nearest-away",
+      halfTurn: "flip",
+      edges: "wrap",
+      columnGroup: "1",
+    };
+    expect(targetProfileInput.safeParse(valid).data?.fixedPointFraction).toBe(0);
+    for (const blank of ["", "   ", undefined]) {
+      const result = targetProfileInput.safeParse({ ...valid, fixedPointFraction: blank });
+      expect(result.success).toBe(false);
+      expect(result.error!.issues.map((i) => [i.path.join("."), i.message])).toEqual([
+        ["fixedPointFraction", "Fraction bits must be a whole number from 0 to 31."],
+      ]);
+    }
+  });
 });

@@ -21,6 +21,7 @@ import {
 } from "@skewsmith/core";
 import { z } from "zod";
 import { descriptionText, nameText } from "../forms.ts";
+import { SPRITE_COLOURS } from "../sprites/colours.ts";
 import { NEW_EFFECT_CANVAS, NEW_EFFECT_FRAMES } from "./display.ts";
 
 /** The settings a target profile fixes for the effects that use it. */
@@ -57,12 +58,19 @@ export function newEffectDocument(profile?: ProfileSettings): Effect {
   });
 }
 
+/**
+ * A whole number from `min` to `max`, typed or sent as text. Blank text is no number (left to itself, coercion would
+ * read it as 0, so an emptied field would save as 0 wherever 0 is allowed).
+ */
 const whole = (min: number, max: number, what: string) =>
-  z.coerce
-    .number({ error: `${what} must be a number.` })
-    .int(`${what} must be a whole number.`)
-    .min(min, `${what} must be from ${min} to ${max}.`)
-    .max(max, `${what} must be from ${min} to ${max}.`);
+  z.preprocess(
+    (v) => (typeof v === "string" && v.trim() === "" ? undefined : v),
+    z.coerce
+      .number({ error: `${what} must be a whole number from ${min} to ${max}.` })
+      .int(`${what} must be a whole number.`)
+      .min(min, `${what} must be from ${min} to ${max}.`)
+      .max(max, `${what} must be from ${min} to ${max}.`),
+  );
 
 /** Longest label prefix of a target profile, in characters: it leaves room for the effect's own name in the label (see profileLabel). */
 export const PROFILE_LABEL_PREFIX_MAX = 12;
@@ -125,6 +133,18 @@ export const targetProfileInput = z.object({
         ctx.addIssue({ code: "custom", message: `The label prefix must be ${LABEL_ALLOWED}${reason}.` });
       }
     }),
+  /** Most colours a sprite may use on the target; blank (or null) for no limit. */
+  maxColours: z.preprocess(
+    (v) => (v === undefined || v === null || (typeof v === "string" && v.trim() === "") ? null : v),
+    z.coerce
+      .number({
+        error: `The colour limit must be a whole number from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max}, or empty for none.`,
+      })
+      .int(`The colour limit must be a whole number from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max}, or empty for none.`)
+      .min(SPRITE_COLOURS.min, `The colour limit must be from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max} colours, or empty for none.`)
+      .max(SPRITE_COLOURS.max, `The colour limit must be from ${SPRITE_COLOURS.min} to ${SPRITE_COLOURS.max} colours, or empty for none.`)
+      .nullable(),
+  ),
   /** Kept without the options that equal core's defaults, so "nothing chosen" has one form. */
   exportOptions: profileExportOptions.default({}).transform((options) => {
     const kept: ProfileExportOptions = {};

@@ -1,9 +1,9 @@
 import { createHash } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { and, asc, eq, like } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
-import { makeUser } from "../../tests/factories.ts";
+import { makeTeam, makeUser } from "../../tests/factories.ts";
 import { testDb } from "../../tests/support/db.ts";
-import { apiTokens } from "../db/schema.ts";
+import { activity, apiTokens } from "../db/schema.ts";
 import {
   createApiToken,
   findApiToken,
@@ -115,5 +115,37 @@ describe("API tokens", () => {
     expect(await touchApiToken(db, await row(), later)).toBe(true);
     expect((await row()).lastUsedAt).toEqual(later);
     expect(token).toMatch(TOKEN_FORM);
+  });
+
+  it("leave a line in the activity of every team of their person when made and when revoked (once), never the secret", async () => {
+    const [owner, member, loner] = [await makeUser(db), await makeUser(db), await makeUser(db)];
+    const mine = await makeTeam(db, { owner });
+    const theirs = await makeTeam(db, { owner: member, members: [{ user: owner, role: "editor" }] });
+    const lines = async (teamId: string) =>
+      await db
+        .select({ action: activity.action, summary: activity.summary, userId: activity.userId })
+        .from(activity)
+        .where(and(eq(activity.teamId, teamId), like(activity.action, "token.%")))
+        .orderBy(asc(activity.id));
+    const expiresAt = new Date("2031-05-06T12:00:00Z");
+    const { token, item } = await make(owner.id, "nightly build", "write", expiresAt);
+    for (const teamId of [mine.id, theirs.id])
+      expect(await lines(teamId)).toEqual([
+        { action: "token.created", summary: "made the API token “nightly build” (write, until 2031-05-06)", userId: owner.id },
+      ]);
+    expect(JSON.stringify(await lines(mine.id))).not.toContain(token);
+
+    await revokeApiToken(db, { userId: owner.id, tokenId: item.id });
+    await revokeApiToken(db, { userId: owner.id, tokenId: item.id });
+    for (const teamId of [mine.id, theirs.id])
+      expect((await lines(teamId)).map((l) => [l.action, l.summary])).toEqual([
+        ["token.created", "made the API token “nightly build” (write, until 2031-05-06)"],
+        ["token.revoked", "revoked the API token “nightly build” (write)"],
+      ]);
+
+    // Someone in no team makes and revokes a token without a line anywhere (and without an error).
+    const lonely = await make(loner.id, "scratch");
+    await revokeApiToken(db, { userId: loner.id, tokenId: lonely.item.id });
+    expect(await db.select().from(activity).where(eq(activity.userId, loner.id))).toEqual([]);
   });
 });

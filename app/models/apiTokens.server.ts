@@ -5,7 +5,8 @@
 import { createHash, randomBytes } from "node:crypto";
 import { and, desc, eq, gt, isNull, lt, or, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
-import { apiTokens, users, type ApiToken, type TokenScope, type User } from "../db/schema.ts";
+import { apiTokens, memberships, users, type ApiToken, type TokenScope, type User } from "../db/schema.ts";
+import { recordActivity } from "./activity.server.ts";
 import { DomainError } from "./errors.ts";
 
 /** Every token starts with this, so secret scanners and people can tell a Skewsmith token on sight. */
@@ -34,6 +35,15 @@ const listColumns = {
   expiresAt: apiTokens.expiresAt,
   revokedAt: apiTokens.revokedAt,
 };
+
+/**
+ * A line in the activity of every team the person belongs to: a token acts with their role in each of them, so each
+ * team's members see that a new way in exists, or that one was closed (the secret is never in it).
+ */
+async function recordTokenActivity(tx: Tx, userId: string, action: "token.created" | "token.revoked", summary: string): Promise<void> {
+  const teams = await tx.select({ teamId: memberships.teamId }).from(memberships).where(eq(memberships.userId, userId));
+  for (const { teamId } of teams) await recordActivity(tx, { teamId, userId, action, summary });
+}
 
 /** Live: not revoked, and not past its expiry. */
 const live = (now: Date) => and(isNull(apiTokens.revokedAt), or(isNull(apiTokens.expiresAt), gt(apiTokens.expiresAt, now)));
@@ -66,6 +76,8 @@ export async function createApiToken(
       .insert(apiTokens)
       .values({ userId: input.userId, name: input.name, scope: input.scope, tokenHash: hashToken(token), expiresAt: input.expiresAt })
       .returning(listColumns);
+    const until = input.expiresAt ? `until ${input.expiresAt.toISOString().slice(0, 10)}` : "until revoked";
+    await recordTokenActivity(tx, input.userId, "token.created", `made the API token “${input.name}” (${input.scope}, ${until})`);
     return { token, item };
   });
 }
@@ -93,15 +105,21 @@ export async function getApiToken(db: Tx, input: { userId: string; tokenId: stri
   return token ?? null;
 }
 
-/** Revokes one of the person's own tokens; it stops working at once. Revoking twice is harmless. */
+/** Revokes one of the person's own tokens; it stops working at once. Revoking twice is harmless (and recorded once). */
 export async function revokeApiToken(db: Tx, input: { userId: string; tokenId: string }): Promise<ApiTokenListItem> {
-  const [revoked] = await db
-    .update(apiTokens)
-    .set({ revokedAt: sql`coalesce(${apiTokens.revokedAt}, now())` })
-    .where(and(eq(apiTokens.id, input.tokenId), eq(apiTokens.userId, input.userId)))
-    .returning(listColumns);
-  if (!revoked) throw new DomainError("You have no such token.", { status: 404 });
-  return revoked;
+  return db.transaction(async (tx) => {
+    const mine = and(eq(apiTokens.id, input.tokenId), eq(apiTokens.userId, input.userId));
+    const [before] = await tx.select(listColumns).from(apiTokens).where(mine).for("update");
+    if (!before) throw new DomainError("You have no such token.", { status: 404 });
+    if (before.revokedAt) return before;
+    const [revoked] = await tx
+      .update(apiTokens)
+      .set({ revokedAt: sql`now()` })
+      .where(mine)
+      .returning(listColumns);
+    await recordTokenActivity(tx, input.userId, "token.revoked", `revoked the API token “${revoked.name}” (${revoked.scope})`);
+    return revoked;
+  });
 }
 
 /** Why a presented token does not let anyone in. */

@@ -4,6 +4,8 @@ import { afterAll, describe, expect, it } from "vitest";
 import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam, makeUser } from "../../tests/factories.ts";
 import { testDb } from "../../tests/support/db.ts";
 import { activity } from "../db/schema.ts";
+import { compassRose } from "../demo/art.ts";
+import { spriteColours } from "../sprites/colours.ts";
 import { DomainError } from "./errors.ts";
 import { getEffect, saveEffectBench, type BenchSaveInput } from "./effects.server.ts";
 
@@ -33,6 +35,27 @@ const base = (effectId: string, actorId: string, version = 1): BenchSaveInput =>
 });
 
 describe("saveEffectBench", () => {
+  it("refuses a sprite with more colours than the chosen target profile allows, naming the limit; nothing is saved", async () => {
+    const { owner, team, sprite, effect } = await setup();
+    const colours = spriteColours(compassRose(16)); // the factories' sprite
+    const narrow = await makeTargetProfile(db, { team, actor: owner, name: "Two colours", maxColours: 2 });
+    expect(colours).toBeGreaterThan(2);
+    const error = await saveEffectBench(db, { ...base(effect.id, owner.id), targetProfileId: narrow.id, spriteId: sprite.id }).then(
+      () => null,
+      (e: unknown) => e,
+    );
+    expect(error).toBeInstanceOf(DomainError);
+    expect((error as DomainError).field).toBe("spriteId");
+    expect((error as DomainError).message).toBe(
+      `${sprite.name} uses ${colours} colours (the background included); the target profile Two colours allows at most 2. Reduce its colours, or raise the profile's limit.`,
+    );
+    expect((await getEffect(db, effect.id))!.version).toBe(1);
+
+    const wide = await makeTargetProfile(db, { team, actor: owner, name: "Full palette", maxColours: colours });
+    const saved = await saveEffectBench(db, { ...base(effect.id, owner.id), targetProfileId: wide.id, spriteId: sprite.id });
+    expect(saved.ok).toBe(true);
+  });
+
   it("saves the document, sprite, placement and key pixels in one version, and records what changed", async () => {
     const { owner, sprite, effect } = await setup();
     const result = await saveEffectBench(db, {

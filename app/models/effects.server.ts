@@ -1,10 +1,11 @@
-import { checkEffect, EffectError, type Effect } from "@skewsmith/core";
+import { checkEffect, decodePng, EffectError, type Effect } from "@skewsmith/core";
 import { applyProfileToDocument } from "../profiles/apply.ts";
 import { and, asc, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
 import { effects, projects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
 import { newEffectDocument } from "../effects/settings.ts";
 import { NAME_MAX } from "../forms.ts";
+import { spriteColours, tooManyColours } from "../sprites/colours.ts";
 import { recordActivity } from "./activity.server.ts";
 import { DomainError, isUniqueViolation, staleVersion } from "./errors.ts";
 import { mustGetProject } from "./projects.server.ts";
@@ -402,12 +403,14 @@ export async function saveEffectBench(db: Tx, input: BenchSaveInput): Promise<Be
     const { effect, project } = await changeableEffect(tx, input.effectId);
     if (effect.version !== input.expectedVersion) return { ok: false, current: effect };
     let valid = validDocument(input.document);
+    let limit: { profile: string; colours: number } | null = null;
     if (input.targetProfileId) {
       const [profile] = await tx
         .select()
         .from(targetProfiles)
         .where(and(eq(targetProfiles.id, input.targetProfileId), eq(targetProfiles.teamId, project.teamId)));
       if (!profile) throw new DomainError("That target profile does not belong to this team.", { field: "targetProfileId" });
+      if (profile.maxColours !== null) limit = { profile: profile.name, colours: profile.maxColours };
       if (input.followsProfile) {
         try {
           valid = applyProfileToDocument(valid, profile).document;
@@ -425,11 +428,21 @@ export async function saveEffectBench(db: Tx, input: BenchSaveInput): Promise<Be
     let bounds = valid.canvas;
     if (input.spriteId) {
       const [sprite] = await tx
-        .select({ width: sprites.width, height: sprites.height })
+        .select({ width: sprites.width, height: sprites.height, name: sprites.name, png: sprites.png })
         .from(sprites)
         .where(and(eq(sprites.id, input.spriteId), eq(sprites.projectId, project.id)));
       if (!sprite) throw new DomainError("That sprite does not belong to this project.", { field: "spriteId" });
       bounds = sprite;
+      // The target's colour limit, checked when this save chooses the sprite or the profile (an effect saved before a
+      // limit was lowered keeps saving its other settings).
+      const chosen = input.spriteId !== effect.spriteId || input.targetProfileId !== effect.targetProfileId;
+      if (limit && chosen) {
+        const colours = spriteColours(decodePng(sprite.png));
+        if (colours > limit.colours)
+          throw new DomainError(tooManyColours({ sprite: sprite.name, colours, profile: limit.profile, limit: limit.colours }), {
+            field: "spriteId",
+          });
+      }
     }
     const outside = input.keyPixels.find(([x, y]) => !(x >= 0 && y >= 0 && x < bounds.width && y < bounds.height));
     if (outside)

@@ -2,11 +2,12 @@ import { encodePng, type IndexedImage, type RgbaImage } from "@skewsmith/core";
 import { eq } from "drizzle-orm";
 import sharp from "sharp";
 import { afterAll, describe, expect, it } from "vitest";
-import { makeEffect, makeProject, makeSprite, makeTeam, makeUser } from "../../tests/factories.ts";
+import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam, makeUser } from "../../tests/factories.ts";
 import { testDb } from "../../tests/support/db.ts";
 import { chunk, ihdr, SIGNATURE } from "../../tests/support/pngSpec.ts";
 import { effects, sprites } from "../db/schema.ts";
 import { compassRose } from "../demo/art.ts";
+import { spriteColours } from "../sprites/colours.ts";
 import { deleteEffect, getEffect } from "./effects.server.ts";
 import { DomainError } from "./errors.ts";
 import { archiveProject } from "./projects.server.ts";
@@ -357,5 +358,44 @@ describe("deleteSprite", () => {
     );
     expect(stale.status).toBe(409);
     expect(await db.select().from(sprites).where(eq(sprites.id, sprite.id))).toHaveLength(1);
+  });
+
+  it("refuses (409, nothing changed) a new picture with more colours than the target profile of an effect using it allows", async () => {
+    const { owner, team, project } = await setup();
+    const profile = await makeTargetProfile(db, { team, actor: owner, name: "Three shades", maxColours: 3 });
+    const sprite = await makeSprite(db, { project, actor: owner });
+    await makeEffect(db, { project, actor: owner, name: "Title spin", sprite, targetProfile: profile });
+    const rose = compassRose(32);
+    const colours = spriteColours(rose);
+    expect(colours).toBeGreaterThan(3); // the case needs a picture over the limit
+    const refused = await refusal(
+      replaceSprite(db, { projectId: project.id, spriteId: sprite.id, png: encodePng(rose), expectedVersion: 1, actorId: owner.id }),
+    );
+    expect([refused.status, refused.field]).toEqual([409, "file"]);
+    expect(refused.message).toBe(
+      `The new picture of ${sprite.name} uses ${colours} colours (the background included); Title spin is made for the target profile Three shades, which allows at most 3. Reduce its colours, or raise the profile's limit.`,
+    );
+    const [kept] = await db.select().from(sprites).where(eq(sprites.id, sprite.id));
+    expect(kept.version).toBe(1);
+
+    // Two colours (the background and white) fit the limit.
+    const two: IndexedImage = {
+      kind: "indexed",
+      width: 2,
+      height: 1,
+      data: new Uint8Array([0, 1]),
+      palette: [
+        [0, 0, 0, 0],
+        [255, 255, 255, 255],
+      ],
+    };
+    const { sprite: after } = await replaceSprite(db, {
+      projectId: project.id,
+      spriteId: sprite.id,
+      png: encodePng(two),
+      expectedVersion: 1,
+      actorId: owner.id,
+    });
+    expect(after.version).toBe(2);
   });
 });

@@ -5,10 +5,11 @@
  * it: attaching a sprite to an effect takes a key-share lock on that row, so no effect starts using it mid-change.
  */
 import { decodePng, type Image } from "@skewsmith/core";
-import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, isNotNull, sql } from "drizzle-orm";
 import type { Tx } from "../db/client.server.ts";
-import { effects, sprites, users, type EffectRow, type Sprite, type SpriteKind } from "../db/schema.ts";
+import { effects, sprites, targetProfiles, users, type EffectRow, type Sprite, type SpriteKind } from "../db/schema.ts";
 import { insideCanvas, spritePlacement } from "../effects/placement.ts";
+import { spriteColours, tooManyColours } from "../sprites/colours.ts";
 import { decodeSprite, SpriteFileError } from "../sprites/spriteFile.ts";
 import { recordActivity } from "./activity.server.ts";
 import { DomainError, isUniqueViolation } from "./errors.ts";
@@ -152,6 +153,37 @@ async function effectsUsing(tx: Tx, spriteId: string): Promise<EffectRow[]> {
     .orderBy(asc(sql`lower(${effects.name})`));
 }
 
+/**
+ * Refuses a picture with more colours than the target profile of an effect using the sprite allows (deleted effects
+ * are not checked: they are restored with the sprite as it is then).
+ */
+async function checkColourLimits(tx: Tx, spriteName: string, image: Image, users: EffectRow[]): Promise<void> {
+  const profileIds = [...new Set(users.map((e) => e.targetProfileId).filter((id): id is string => id !== null))];
+  if (profileIds.length === 0) return;
+  const limited = await tx
+    .select({ id: targetProfiles.id, name: targetProfiles.name, maxColours: targetProfiles.maxColours })
+    .from(targetProfiles)
+    .where(and(inArray(targetProfiles.id, profileIds), isNotNull(targetProfiles.maxColours)));
+  if (limited.length === 0) return;
+  const colours = spriteColours(image);
+  const byId = new Map(limited.map((p) => [p.id, p]));
+  const clash = users
+    .map((e) => ({ effect: e, profile: e.targetProfileId ? byId.get(e.targetProfileId) : undefined }))
+    .filter((u) => u.profile && u.profile.maxColours !== null && colours > u.profile.maxColours)
+    .sort((a, b) => a.profile!.maxColours! - b.profile!.maxColours!)[0];
+  if (clash)
+    throw new DomainError(
+      tooManyColours({
+        sprite: `The new picture of ${spriteName}`,
+        colours,
+        profile: clash.profile!.name,
+        limit: clash.profile!.maxColours!,
+        effect: clash.effect.name,
+      }),
+      { field: "file", status: 409 },
+    );
+}
+
 const canvasOf = (effect: EffectRow) => (effect.document as { canvas: { width: number; height: number } }).canvas;
 
 /** Key pixels (sprite pixels) that still lie on a picture of the given size. */
@@ -180,6 +212,7 @@ export async function replaceSprite(
     const project = await liveProject(tx, input.projectId);
     const before = await lockedSprite(tx, input);
     const users = (await effectsUsing(tx, before.id)).filter((e) => !e.deletedAt);
+    await checkColourLimits(tx, before.name, image, users);
     const resized = before.width !== image.width || before.height !== image.height;
     const notes: string[] = [];
     if (resized) {

@@ -281,6 +281,16 @@ export async function updateTargetProfile(
       const exportChange = exportChanges(before, after);
       const changes = [
         ...(before.name !== after.name ? [{ field: "name", label: "Name", from: before.name, to: after.name }] : []),
+        ...(before.maxColours !== after.maxColours
+          ? [
+              {
+                field: "maxColours",
+                label: "Colour limit",
+                from: String(before.maxColours ?? "none"),
+                to: String(after.maxColours ?? "none"),
+              },
+            ]
+          : []),
         ...documentChanges,
         ...exportChange,
       ];

@@ -30,6 +30,8 @@ export interface ProfileFormValues {
   columnGroup: number | string;
   dialects: string[];
   labelPrefix: string;
+  /** Most colours a sprite may use on the target; "" for no limit. */
+  maxColours: number | string;
   exportOptions: {
     sign?: string;
     registerBits?: number | string | null;
@@ -58,6 +60,7 @@ const FIELDS = [
   "edges",
   "columnGroup",
   "labelPrefix",
+  "maxColours",
 ] as const;
 
 /** Fields of the form that take one value (the dialect checkboxes take a list). */
@@ -112,4 +115,5 @@ export interface ProfileFormOptions {
   registerBits: { min: number; max: number };
   canvas: { min: number; max: number };
   labelPrefixMax: number;
+  colours: { min: number; max: number };
 }

@@ -28,6 +28,8 @@ export const STARTER_PROFILES: readonly StarterProfile[] = [
       columnGroup: 8, // from memory: no per-column scroll, so columns move as 8-pixel tile columns
       dialects: ["6502", "bin"],
       labelPrefix: "",
+      // No colour limit: palettes differ by mode on every family; the team sets the one its target has.
+      maxColours: null,
       exportOptions: {
         sign: "scroll", // from memory: a larger scroll value moves the picture left / up
         split: true, // common practice on the 6502: separate low-byte and high-byte tables for indexed loads
@@ -49,6 +51,8 @@ export const STARTER_PROFILES: readonly StarterProfile[] = [
       columnGroup: 16, // from memory: vertical scroll per column works on 16-pixel (two-tile) columns
       dialects: ["68k", "c", "bin"],
       labelPrefix: "",
+      // No colour limit: palettes differ by mode on every family; the team sets the one its target has.
+      maxColours: null,
       exportOptions: {},
     },
   },
@@ -67,6 +71,8 @@ export const STARTER_PROFILES: readonly StarterProfile[] = [
       columnGroup: 8, // from memory: no per-column scroll, so columns move as 8-pixel tile columns
       dialects: ["z80", "bin"],
       labelPrefix: "",
+      // No colour limit: palettes differ by mode on every family; the team sets the one its target has.
+      maxColours: null,
       exportOptions: {
         sign: "scroll", // from memory: the scroll registers move the view, so the picture moves the other way
       },
@@ -87,6 +93,8 @@ export const STARTER_PROFILES: readonly StarterProfile[] = [
       columnGroup: 8, // from memory: no per-column scroll in the tiled modes, so columns move as 8-pixel tile columns
       dialects: ["arm", "c", "bin"],
       labelPrefix: "",
+      // No colour limit: palettes differ by mode on every family; the team sets the one its target has.
+      maxColours: null,
       exportOptions: {
         sign: "scroll", // from memory: a larger scroll value moves the background left / up
       },

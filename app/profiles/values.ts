@@ -15,6 +15,7 @@ export const BLANK_PROFILE: ProfileFormValues = {
   columnGroup: 1,
   dialects: [],
   labelPrefix: "",
+  maxColours: "",
   exportOptions: {},
 };
 
@@ -25,6 +26,7 @@ export function profileValues(
     description: string;
     dialects: readonly string[];
     labelPrefix: string;
+    maxColours?: number | null;
     exportOptions: Record<string, unknown>;
   },
 ): ProfileFormValues {
@@ -35,6 +37,7 @@ export function profileValues(
     ...{ name, description, canvasWidth, canvasHeight, fixedPointBits, fixedPointFraction, rounding, halfTurn, edges, columnGroup },
     dialects: [...profile.dialects],
     labelPrefix: profile.labelPrefix,
+    maxColours: profile.maxColours ?? "",
     exportOptions: {
       sign: typeof x.sign === "string" ? x.sign : undefined,
       registerBits: typeof x.registerBits === "number" ? x.registerBits : null,

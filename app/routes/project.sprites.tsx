@@ -10,10 +10,14 @@ import { formText, readForm } from "../http.server.ts";
 import { DomainError } from "../models/errors.ts";
 import { createSprite, deleteSprite, listSprites, renameSprite, replaceSprite, SPRITE_MAX_BYTES } from "../models/sprites.server.ts";
 import { hasRole } from "../roles.ts";
-import { deleteSpriteForm, nameFromFile, renameSpriteForm, replaceSpriteForm, uploadSpriteForm } from "../sprites/forms.ts";
-
-/** Room for the multipart envelope and the other fields around a file of SPRITE_MAX_BYTES. */
-const UPLOAD_BODY_MAX = SPRITE_MAX_BYTES + 64 * 1024;
+import {
+  deleteSpriteForm,
+  nameFromFile,
+  renameSpriteForm,
+  replaceSpriteForm,
+  SPRITE_FORM_MAX_BYTES,
+  uploadSpriteForm,
+} from "../sprites/forms.ts";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Sprites of ${data?.project.name ?? "a project"} · Skewsmith` }];
 
@@ -45,9 +49,11 @@ async function change(intent: string, subject: string | undefined, work: () => P
   }
 }
 
-/** The uploaded file of the form, as bytes; a field message when there is none. */
+/** The uploaded file of the form, as bytes; a field message when there is none, or more than one. */
 async function fileOf(form: FormData): Promise<{ ok: true; file: File; bytes: Uint8Array } | { ok: false; errors: FieldErrors }> {
-  const file = form.get("file");
+  const all = form.getAll("file");
+  if (all.length > 1) return { ok: false, errors: { file: `The form sent ${all.length} files; a sprite is one PNG file.` } };
+  const file = all[0];
   if (!(file instanceof File) || (file.size === 0 && file.name === "")) return { ok: false, errors: { file: "Choose a PNG file first." } };
   if (file.size === 0) return { ok: false, errors: { file: "The file is empty." } };
   return { ok: true, file, bytes: new Uint8Array(await file.arrayBuffer()) };
@@ -58,7 +64,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { user, project } = await requireProjectRole(request, params.projectId, "editor");
   let form: FormData;
   try {
-    form = await readForm(request, { maxBytes: UPLOAD_BODY_MAX });
+    form = await readForm(request, { maxBytes: SPRITE_FORM_MAX_BYTES });
   } catch (error) {
     const answer = thrownAnswer(error);
     if (!answer) throw error;
@@ -73,10 +79,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     case "upload-sprite": {
       const parsed = parseForm(uploadSpriteForm, form);
       const upload = await fileOf(form);
-      if (!upload.ok) return invalid(intent, upload.errors);
-      const name = nameText("sprite").safeParse(
-        parsed.ok && parsed.data.name ? parsed.data.name : nameFromFile(upload.file.name, NAME_MAX),
-      );
+      if (!parsed.ok || !upload.ok) return invalid(intent, { ...(parsed.ok ? {} : parsed.errors), ...(upload.ok ? {} : upload.errors) });
+      const name = nameText("sprite").safeParse(parsed.data.name || nameFromFile(upload.file.name, NAME_MAX));
       if (!name.success) return invalid(intent, { name: name.error.issues[0].message });
       return change(intent, undefined, async () => {
         const sprite = await createSprite(db(), { projectId: project.id, name: name.data, png: upload.bytes, actorId });

@@ -22,7 +22,7 @@ import {
 } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
 import { qNotation } from "../effects/display.ts";
-import { errorsFor, type ActionResult } from "../forms.ts";
+import { deleteProfileForm, errorsFor, parseForm, type ActionResult } from "../forms.ts";
 import { formText, readForm } from "../http.server.ts";
 import {
   countProfileUsers,
@@ -106,12 +106,10 @@ export async function action({ request, params }: Route.ActionArgs) {
       return result;
     }
     case "delete-profile": {
-      if (formText(form, "confirmed") !== "yes")
-        return invalid(intent, { form: "Confirm the deletion first: the page asks how many effects it detaches." });
-      const expectedVersion = wholeField(form, "version");
-      const expectedEffectCount = wholeField(form, "effectCount");
-      if (expectedVersion === null || expectedEffectCount === null)
-        return invalid(intent, { form: "The confirmation did not say which version and how many effects it saw; ask again." });
+      const parsed = parseForm(deleteProfileForm, form);
+      // The fields are the confirmation's own (hidden): their messages show together on the form.
+      if (!parsed.ok) return invalid(intent, { ...parsed.errors, form: [...new Set(Object.values(parsed.errors))].join(" ") });
+      const { version: expectedVersion, effectCount: expectedEffectCount } = parsed.data;
       let deleted = false;
       const result = await attempt(intent, async () => {
         await deleteTargetProfile(db(), { teamId: team.id, profileId: profile.id, expectedVersion, expectedEffectCount, actorId: user.id });

@@ -5,9 +5,9 @@ import { ActivityList } from "../components/ActivityList.tsx";
 import { ProfilesTable } from "../components/ProfilesTable.tsx";
 import { buttonClass, Button, Crumbs, FormError, Notice, PageTitle, Panel } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
-import { errorsFor } from "../forms.ts";
+import { addStartersForm, duplicateProfileForm, errorsFor, parseForm } from "../forms.ts";
 import { requireTeamRole } from "../guards.server.ts";
-import { readForm } from "../http.server.ts";
+import { formText, readForm } from "../http.server.ts";
 import { listTeamActivityOfKind } from "../models/activity.server.ts";
 import { addStarterProfiles, duplicateTargetProfile, listTargetProfiles } from "../models/targetProfiles.server.ts";
 import { STARTER_PROFILES } from "../profiles/starters.ts";
@@ -32,21 +32,22 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { user, team, role } = await requireTeamRole(request, params.teamId, "viewer");
   requireAtLeast(role, "editor");
   const form = await readForm(request);
-  const intent = String(form.get("intent") ?? "");
+  const intent = formText(form, "intent");
   switch (intent) {
     case "add-starters": {
-      const keys = form.getAll("starter").filter((k): k is string => typeof k === "string");
-      if (keys.length === 0) return invalid(intent, { starter: "Tick at least one starting profile to add." });
+      const parsed = parseForm(addStartersForm, form);
+      if (!parsed.ok) return invalid(intent, parsed.errors);
       return attempt(intent, async () => {
-        const added = await addStarterProfiles(db(), { teamId: team.id, keys, actorId: user.id });
+        const added = await addStarterProfiles(db(), { teamId: team.id, keys: parsed.data.starter, actorId: user.id });
         return added.length ? `Added ${added.join("; ")}.` : "The team already has profiles with those names; nothing was added.";
       });
     }
     case "duplicate-profile": {
-      const profileId = String(form.get("profileId") ?? "");
+      const parsed = parseForm(duplicateProfileForm, form);
+      if (!parsed.ok) return invalid(intent, parsed.errors);
       let copyId = "";
       const result = await attempt(intent, async () => {
-        copyId = (await duplicateTargetProfile(db(), { teamId: team.id, profileId, actorId: user.id })).id;
+        copyId = (await duplicateTargetProfile(db(), { teamId: team.id, profileId: parsed.data.profileId, actorId: user.id })).id;
       });
       if (copyId) throw redirect(`/teams/${team.id}/profiles/${copyId}`);
       return result;
@@ -60,6 +61,7 @@ export default function TeamProfiles({ loaderData, actionData }: Route.Component
   const { team, role, profiles, starters, changes } = loaderData;
   const canEdit = hasRole(role, "editor");
   const starterErrors = errorsFor(actionData, "add-starters");
+  const duplicateErrors = errorsFor(actionData, "duplicate-profile");
   const added = actionData?.ok && actionData.intent === "add-starters" ? actionData.message : undefined;
   return (
     <div className="flex flex-col gap-8">
@@ -89,6 +91,7 @@ export default function TeamProfiles({ loaderData, actionData }: Route.Component
               : "Editors and owners create them; you can then use them."
           }
         />
+        <FormError>{duplicateErrors ? Object.values(duplicateErrors).join(" ") : undefined}</FormError>
         {!canEdit ? <p className="mt-3 text-sm text-ink-400">Viewers use target profiles; editors and owners change them.</p> : null}
       </Panel>
 

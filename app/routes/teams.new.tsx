@@ -4,7 +4,7 @@ import { attempt, invalid } from "../actions.server.ts";
 import { CreateTeamForm } from "../components/CreateTeamForm.tsx";
 import { Crumbs, PageTitle, Panel } from "../components/ui.tsx";
 import { db } from "../db.server.ts";
-import { createTeamForm, parseForm } from "../forms.ts";
+import { createTeamForm, newTeamStartersForm, parseForm } from "../forms.ts";
 import { requireUser } from "../guards.server.ts";
 import { readForm } from "../http.server.ts";
 import { addStarterProfiles } from "../models/targetProfiles.server.ts";
@@ -22,8 +22,9 @@ export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
   const form = await readForm(request);
   const parsed = parseForm(createTeamForm, form);
-  if (!parsed.ok) return invalid("create-team", parsed.errors);
-  const starters = form.getAll("starter").filter((k): k is string => typeof k === "string");
+  const ticked = parseForm(newTeamStartersForm, form);
+  if (!parsed.ok || !ticked.ok) return invalid("create-team", { ...(ticked.ok ? {} : ticked.errors), ...(parsed.ok ? {} : parsed.errors) });
+  const starters = ticked.data.starter;
   let teamId = "";
   const result = await attempt("create-team", async () => {
     teamId = await db().transaction(async (tx) => {

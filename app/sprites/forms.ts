@@ -1,6 +1,10 @@
 /** The sprite library's forms: one zod schema each, shared by the library component and the sprite route's action. */
 import { z } from "zod";
 import { BIDI, CONTROL, nameText } from "../forms.ts";
+import { SPRITE_MAX_BYTES } from "./pngHeader.ts";
+
+/** The most the sprite library's address reads of a form: a file of SPRITE_MAX_BYTES, the multipart envelope and the other fields. */
+export const SPRITE_FORM_MAX_BYTES = SPRITE_MAX_BYTES + 64 * 1024;
 
 const spriteId = z.string({ error: "Choose a sprite." }).uuid("That sprite does not exist.");
 /** The sprite's version when the person looked at it: a change from an older one is refused (409). */

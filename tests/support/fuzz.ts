@@ -22,7 +22,10 @@
  *   }
  *
  * Kinds: "name" and "description" (the shared text rules), "uuid" (an id; also gets ids of things in another team
- * and of nothing), "version", "int" (with `min`/`max`), "enum" (with `values`), "file", "token". Put `optional: true`
+ * and of nothing), "version", "int" (with `min`/`max`), "enum" (with `values`), "file", "token", "json" (a value of
+ * its own shape, such as an effect document or key pixels, with `wrong` listing values that must be refused; in a form
+ * it is sent as JSON text). `maxBytes` on a target whose address reads more than the usual form limit (uploads) makes
+ * the "body over the limit" case go past that address's own limit. Put `optional: true`
  * on a field the action may go without (it is then never "broken" by leaving it out), `firstWins: true` on one it
  * reads with formText (a repeat is then not sent). `body: "json"` makes the
  * target an API body: fields are sent as one JSON object (wrong types then include numbers as strings, objects,
@@ -43,9 +46,11 @@ export type FieldSpec =
   | ({ kind: "name" | "description" | "token"; valid: string | ((w: World) => string) } & Common)
   | ({ kind: "uuid"; valid: (w: World) => string; foreign?: (w: World) => string } & Common)
   | ({ kind: "version"; valid: (w: World) => string } & Common)
-  | ({ kind: "int"; valid: string; min: number; max: number } & Common)
+  | ({ kind: "int"; valid: string | ((w: World) => string); min: number; max: number } & Common)
   | ({ kind: "enum"; valid: string; values: readonly string[] } & Common)
-  | ({ kind: "file"; valid: (w: World) => Uint8Array } & Common);
+  | ({ kind: "file"; valid: (w: World) => Uint8Array } & Common)
+  /** A JSON value of its own shape (an effect document): `wrong` lists values of the right type that must be refused. */
+  | ({ kind: "json"; valid: (w: World) => unknown; wrong: (w: World) => unknown[] } & Common);
 
 export interface FuzzTarget {
   name: string;
@@ -58,6 +63,10 @@ export interface FuzzTarget {
   body?: "form" | "json";
   /** Who posts: the owner unless said. */
   as?: keyof World["as"];
+  /** The most the address reads of a body, in bytes, where it is not the usual form limit (an address that takes uploads). */
+  maxBytes?: number;
+  /** The method (POST unless said; the API saves with PUT). */
+  method?: "POST" | "PUT";
 }
 
 type Value = string | { file: Uint8Array; filename: string };
@@ -66,7 +75,10 @@ type Entries = [string, Value][];
 export interface FuzzCase {
   mode: "document" | "data";
   broken: string;
-  body: { kind: "entries"; entries: Entries; multipart: boolean } | { kind: "raw"; contentType: string | null; bytes: Uint8Array | string };
+  body:
+    | { kind: "entries"; entries: Entries; multipart: boolean }
+    | { kind: "raw"; contentType: string | null; bytes: Uint8Array | string }
+    | { kind: "json"; value: unknown };
 }
 
 const KB100 = "é".repeat(50_000); // 100 kB of UTF-8
@@ -100,7 +112,8 @@ function wrongValues(spec: FieldSpec, w: World): fc.Arbitrary<Value[] | null> {
   switch (spec.kind) {
     case "name":
       return fc.oneof(
-        one(fc.constantFrom("", "   ", "\t\n ", "x".repeat(81), KB100)),
+        // Blank only where the name is required: an optional one left blank is made from elsewhere (a file's name).
+        one(fc.constantFrom(...(spec.optional ? [] : ["", "   ", "\t\n "]), "x".repeat(81), KB100)),
         one(poisoned([...CONTROLS.filter((c) => c.trim() !== ""), "\t", "\n", ...BIDI])),
         ...common,
       );
@@ -133,7 +146,24 @@ function wrongValues(spec: FieldSpec, w: World): fc.Arbitrary<Value[] | null> {
       );
     case "version":
       return fc.oneof(
-        one(fc.constantFrom("", "0", "-1", "1.5", "NaN", "Infinity", "-Infinity", "1e308", "99999999999999999999", "abc", "0x", KB100)),
+        // 2147483648: one past PostgreSQL's integer (the column a version is kept in).
+        one(
+          fc.constantFrom(
+            "",
+            "0",
+            "-1",
+            "1.5",
+            "NaN",
+            "Infinity",
+            "-Infinity",
+            "1e308",
+            "99999999999999999999",
+            "2147483648",
+            "abc",
+            "0x",
+            KB100,
+          ),
+        ),
         // A version the thing is not at: someone else's change came first.
         one(
           fc
@@ -145,25 +175,163 @@ function wrongValues(spec: FieldSpec, w: World): fc.Arbitrary<Value[] | null> {
       );
     case "int":
       return fc.oneof(
-        one(fc.constantFrom("", "NaN", "Infinity", "1e308", "-0.5", "1.5", "abc", "9".repeat(400), KB100)),
+        // "" only where the number is required: an optional one left blank means none.
+        one(fc.constantFrom(...(spec.optional ? [] : [""]), "NaN", "Infinity", "1e308", "-0.5", "1.5", "abc", "9".repeat(400), KB100)),
         one(fc.integer({ min: -1e9, max: spec.min - 1 }).map(String)),
         one(fc.integer({ min: spec.max + 1, max: 2e9 }).map(String)),
         ...common,
       );
     case "enum":
       return fc.oneof(
-        one(fc.constantFrom("", "__proto__", "constructor", "toString", KB100)),
+        // "" only where it is not one of the choices (a token's lifetime, say, takes "" for "until revoked").
+        one(fc.constantFrom(...["", "__proto__", "constructor", "toString", KB100].filter((v) => !spec.values.includes(v)))),
         one(fc.string({ maxLength: 20 }).filter((v) => !spec.values.includes(v.trim()))),
         ...common,
       );
     case "file":
       return fc.oneof(one(fc.constantFrom("", "not a file", KB100)), twice);
+    case "json":
+      return one(fc.constantFrom(...spec.wrong(w).map((v) => JSON.stringify(v))));
   }
 }
 
 function validValue(spec: FieldSpec, w: World): Value {
   if (spec.kind === "file") return { file: spec.valid(w), filename: "sprite.png" };
+  if (spec.kind === "json") return JSON.stringify(spec.valid(w));
   return typeof spec.valid === "function" ? spec.valid(w) : spec.valid;
+}
+
+/** A field's valid value as a JSON body carries it: numbers for versions and whole numbers, the value itself for JSON. */
+function validJson(spec: FieldSpec, w: World): unknown {
+  if (spec.kind === "json") return spec.valid(w);
+  if (spec.kind === "file") throw new Error("a JSON body has no files");
+  const v = typeof spec.valid === "function" ? spec.valid(w) : spec.valid;
+  return spec.kind === "version" || spec.kind === "int" ? Number(v) : v;
+}
+
+/** The body a JSON target accepts. */
+export function validJsonBody(target: FuzzTarget, w: World): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(target.fields ?? {}).map(([k, spec]) => [k, validJson(spec, w)]));
+}
+
+/** Values of the wrong JSON type for any field: what a careless client sends (numbers as strings, objects, arrays, null). */
+const WRONG_TYPES: unknown[] = [null, true, {}, [], ["x"], { $gt: "" }, { __proto__: { admin: true } }];
+
+/** JSON values a field of this kind must refuse (each wrong by construction). */
+function wrongJson(spec: FieldSpec, w: World): fc.Arbitrary<unknown> {
+  const types = fc.constantFrom(...WRONG_TYPES);
+  switch (spec.kind) {
+    case "name":
+      return fc.oneof(
+        fc.constantFrom("", "   ", "x".repeat(81), KB100, 42),
+        poisoned([...CONTROLS.filter((c) => c.trim() !== ""), "\t", "\n", ...BIDI]),
+        types,
+      );
+    case "description":
+      return fc.oneof(fc.constantFrom("x".repeat(2001), KB100, 42), poisoned(CONTROLS.filter((c) => !"\t\n\r".includes(c))), types);
+    case "token":
+    case "uuid":
+      return fc.oneof(fc.constantFrom("", "not-a-uuid", uuidOfNothing, KB100, "__proto__", 7), types);
+    case "version": {
+      const valid = Number(validValue(spec, w));
+      return fc.oneof(
+        fc.constantFrom(String(valid), 0, -1, 1.5, 1e308, 2 ** 31, -0, Number.MAX_SAFE_INTEGER + 2),
+        fc.integer({ min: 1, max: 2_000_000_000 }).filter((v) => v !== valid),
+        types,
+      );
+    }
+    case "int":
+      return fc.oneof(
+        // The valid number as a string: a JSON body carries numbers as numbers.
+        fc.constantFrom(String(validValue(spec, w)), 1.5, 1e308, -0.5),
+        fc.integer({ min: -1e9, max: spec.min - 1 }),
+        fc.integer({ min: spec.max + 1, max: 2e9 }),
+        types,
+      );
+    case "enum":
+      return fc.oneof(
+        fc.constantFrom(
+          ...["", "__proto__", "constructor", "toString", KB100, spec.valid.toUpperCase()].filter((v) => !spec.values.includes(v)),
+          8,
+        ),
+        fc.string({ maxLength: 20 }).filter((v) => !spec.values.includes(v)),
+        types,
+      );
+    case "file":
+      return types;
+    case "json":
+      // Only the target's own list: null, a number or a list may be a valid choice of some field (a lifetime of null).
+      return fc.constantFrom(...spec.wrong(w));
+  }
+}
+
+/** Cases for a JSON target: broken fields, unknown fields, a body that is not an object, or not JSON at all. */
+function jsonCases(target: FuzzTarget, w: World): fc.Arbitrary<FuzzCase> {
+  const valid = validJsonBody(target, w);
+  const text = JSON.stringify(valid);
+  const urlencoded = new URLSearchParams(Object.entries(valid).map(([k, v]) => [k, String(v)])).toString();
+  const raw = (contentType: string | null, bytes: Uint8Array | string): FuzzCase["body"] => ({ kind: "raw", contentType, bytes });
+  const wrongBody = fc.constantFrom<[string, FuzzCase["body"]]>(
+    ["a form body", raw("application/x-www-form-urlencoded", urlencoded)],
+    ["plain text", raw("text/plain", text)],
+    ["no Content-Type", raw(null, text)],
+    ["JSON cut short", raw("application/json", text.slice(0, Math.max(1, text.length - 3)))],
+    ["JSON with a trailing comma", raw("application/json", `${text.slice(0, -1)},}`)],
+    ["two JSON values", raw("application/json", `${text}${text}`)],
+    ["a body over the JSON limit", raw("application/json", JSON.stringify({ ...valid, pad: "x".repeat(1100 * 1024) }))],
+    ["a body that is not UTF-8", raw("application/json", new Uint8Array([0x7b, 0x22, 0xff, 0xfe, 0x22, 0x3a, 0x31, 0x7d]))],
+    ["JSON nested 100000 deep", raw("application/json", `${"[".repeat(100_000)}${"]".repeat(100_000)}`)],
+    ["an empty body", raw("application/json", "")],
+  );
+  const bodyCases = wrongBody.map(([broken, body]) => ({ mode: "document", broken, body }) as FuzzCase);
+  const notObject = fc
+    .constantFrom<unknown>(null, 42, "text", [], [valid], true)
+    .map(
+      (value) =>
+        ({ mode: "document", broken: `the body ${JSON.stringify(value).slice(0, 40)}`, body: { kind: "json", value } }) as FuzzCase,
+    );
+  const fields = Object.entries(target.fields ?? {});
+  const fieldCase = fc
+    .tuple(
+      fc.subarray(fields, { minLength: 1 }),
+      fc.option(fc.constantFrom("extra", "__proto__", "constructor", "Version"), { nil: undefined }),
+    )
+    .chain(([broken, extra]) =>
+      fc
+        .tuple(
+          ...broken.map(([, spec]) =>
+            fc.oneof(
+              { weight: 6, arbitrary: wrongJson(spec, w).map((v) => ({ v })) },
+              { weight: spec.optional ? 0 : 1, arbitrary: fc.constant(null) }, // missing
+            ),
+          ),
+        )
+        .map((values) => {
+          const body: Record<string, unknown> = { ...valid };
+          broken.forEach(([name], i) => {
+            const v = values[i];
+            if (v === null) delete body[name];
+            else body[name] = v.v;
+          });
+          // An unknown field is its own mistake (a strict body refuses it), even when nothing else is wrong.
+          let json = JSON.stringify(body);
+          if (extra) json = `${json.slice(0, -1)}${json.length > 2 ? "," : ""}${JSON.stringify(extra)}:1}`;
+          const describe = broken
+            .map(([name], i) => {
+              const v = values[i];
+              if (v === null) return `${name} missing`;
+              const shown = JSON.stringify(v.v) ?? String(v.v);
+              return `${name}=${shown.length > 40 ? `${shown.slice(0, 40)}…(${shown.length})` : shown}`;
+            })
+            .join(", ");
+          return {
+            mode: "document",
+            broken: extra ? `${describe}, and a field ${JSON.stringify(extra)}` : describe,
+            body: { kind: "raw", contentType: "application/json", bytes: json },
+          } as FuzzCase;
+        }),
+    );
+  return fc.oneof({ weight: 5, arbitrary: fieldCase }, { weight: 1, arbitrary: notObject }, { weight: 2, arbitrary: bodyCases });
 }
 
 /** The body the target accepts, as form entries. */
@@ -177,6 +345,7 @@ const encoder = new TextEncoder();
 
 /** Cases for one target: broken fields, broken intents, or a body of the wrong kind. */
 export function fuzzCases(target: FuzzTarget, w: World): fc.Arbitrary<FuzzCase> {
+  if (target.body === "json") return jsonCases(target, w);
   const mode = fc.constantFrom<FuzzCase["mode"]>("document", "data");
   const valid = validEntries(target, w);
   const asJson = JSON.stringify(Object.fromEntries(valid.map(([k, v]) => [k, typeof v === "string" ? v : "<file>"])));
@@ -197,7 +366,11 @@ export function fuzzCases(target: FuzzTarget, w: World): fc.Arbitrary<FuzzCase> 
     ["an XML body", { kind: "raw", contentType: "application/xml", bytes: "<intent>x</intent>" }],
     [
       "a body over the form limit",
-      { kind: "raw", contentType: "application/x-www-form-urlencoded", bytes: `${urlencoded}&pad=${"x".repeat(300 * 1024)}` },
+      {
+        kind: "raw",
+        contentType: "application/x-www-form-urlencoded",
+        bytes: `${urlencoded}&pad=${"x".repeat(Math.max(300 * 1024, (target.maxBytes ?? 0) + 1024))}`,
+      },
     ],
     ["a body that is not UTF-8", { kind: "raw", contentType: "application/json; charset=utf-16", bytes: encoder.encode("\u00ff\u00fe{") }],
   );
@@ -270,6 +443,7 @@ export function fuzzCases(target: FuzzTarget, w: World): fc.Arbitrary<FuzzCase> 
 
 /** The case as a fetch body and headers. */
 export function encodeCase(c: FuzzCase): { body: BodyInit; headers: Record<string, string> } {
+  if (c.body.kind === "json") return { body: JSON.stringify(c.body.value), headers: { "Content-Type": "application/json" } };
   if (c.body.kind === "raw")
     return { body: c.body.bytes as BodyInit, headers: c.body.contentType ? { "Content-Type": c.body.contentType } : {} };
   if (!c.body.multipart) {

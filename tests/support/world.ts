@@ -2,9 +2,10 @@
  * A small team of the test's own, with one of everything the app has so far, and its people signed in over HTTP:
  * owner, editor, viewer, and a stranger who owns a team of their own (for "not yours" cases).
  */
-import { inArray, sql } from "drizzle-orm";
+import { eq, inArray, sql } from "drizzle-orm";
 import type { Db } from "../../app/db/client.server.ts";
 import {
+  effects,
   projects,
   teams,
   type EffectRow,
@@ -14,7 +15,9 @@ import {
   type Team,
   type User,
 } from "../../app/db/schema.ts";
+import { createApiToken } from "../../app/models/apiTokens.server.ts";
 import { deleteEffect } from "../../app/models/effects.server.ts";
+import { createInvitation } from "../../app/models/invitations.server.ts";
 import { archiveProject } from "../../app/models/projects.server.ts";
 import { makeEffect, makeProject, makeSprite, makeTargetProfile, makeTeam, makeUser } from "../factories.ts";
 import { signedIn, type Client } from "./http.ts";
@@ -31,6 +34,14 @@ export interface World {
   sprite: Sprite;
   effect: EffectRow;
   deleted: EffectRow;
+  /** An open invitation of the team (to an address nobody has), and the owner's live API token (write scope). */
+  invitation: { id: string; token: string };
+  token: { id: string; secret: string };
+  /**
+   * What the delete questions show, as a reloaded page would: the ids of the effects using the sprite (deleted ones
+   * too) and how many effects use the profile. `refreshUses` reads them again after a change.
+   */
+  uses: { sprite: string[]; profile: number };
   /** Things in the stranger's own team, to name from outside it. */
   foreign: { team: Team; project: Project; effect: EffectRow; sprite: Sprite };
   as: { owner: Client; editor: Client; viewer: Client; stranger: Client };
@@ -53,6 +64,15 @@ export async function makeWorld(db: Db, base: string, githubUrl: string): Promis
   const effect = await makeEffect(db, { project, actor: owner, sprite, targetProfile: profile });
   const deleted = await makeEffect(db, { project, actor: owner });
   await deleteEffect(db, { effectId: deleted.id, actorId: owner.id });
+  const issued = await createInvitation(db, {
+    teamId: team.id,
+    email: `invitee-${team.id.slice(0, 8)}@example.com`,
+    role: "viewer",
+    actorId: owner.id,
+  });
+  const invitation = { id: issued.invitation.id, token: issued.token };
+  const made = await createApiToken(db, { userId: owner.id, name: `World ${team.id.slice(0, 8)}`, scope: "write", expiresAt: null });
+  const token = { id: made.item.id, secret: made.token };
   const foreignTeam = await makeTeam(db, { owner: stranger });
   const foreignProject = await makeProject(db, { team: foreignTeam, actor: stranger });
   const foreignSprite = await makeSprite(db, { project: foreignProject, actor: stranger });
@@ -68,7 +88,35 @@ export async function makeWorld(db: Db, base: string, githubUrl: string): Promis
     viewer: await signedIn(base, githubUrl, viewer),
     stranger: await signedIn(base, githubUrl, stranger),
   };
-  return { owner, editor, viewer, stranger, team, project, archived, profile, sprite, effect, deleted, foreign, as };
+  const world = {
+    owner,
+    editor,
+    viewer,
+    stranger,
+    team,
+    project,
+    archived,
+    profile,
+    sprite,
+    effect,
+    deleted,
+    invitation,
+    token,
+    foreign,
+    as,
+  };
+  return { ...world, uses: await usesOf(db, world) };
+}
+
+async function usesOf(db: Db, world: Pick<World, "sprite" | "profile">): Promise<World["uses"]> {
+  const sprite = await db.select({ id: effects.id }).from(effects).where(eq(effects.spriteId, world.sprite.id));
+  const profile = await db.select({ id: effects.id }).from(effects).where(eq(effects.targetProfileId, world.profile.id));
+  return { sprite: sprite.map((e) => e.id), profile: profile.length };
+}
+
+/** Reads `world.uses` again (after changes that made or removed effects). */
+export async function refreshUses(db: Db, world: World): Promise<void> {
+  world.uses = await usesOf(db, world);
 }
 
 /**
@@ -109,6 +157,12 @@ export async function snapshot(
     union all select 'target_profiles', md5(string_agg(tp::text, '|' order by tp.id)) from target_profiles tp where tp.team_id in (${teamList})
     union all select 'sprites', md5(string_agg(concat_ws(',', s.id, s.name, md5(s.png), s.version, s.updated_at), '|' order by s.id)) from sprites s
       where s.project_id in (${projectList})
+    union all select 'effect_profile_changes', md5(string_agg(c::text, '|' order by c.effect_id)) from effect_profile_changes c
+      where c.effect_id in (select e.id from effects e where e.project_id in (${projectList}))
+    union all select 'invitations', md5(string_agg(i::text, '|' order by i.id)) from invitations i where i.team_id in (${teamList})
+    -- A bearer call stamps last_used_at (and so updated_at): a use, not a change of the token.
+    union all select 'api_tokens', md5(string_agg(concat_ws(',', k.id, k.user_id, k.name, k.token_hash, k.scope, k.expires_at, k.revoked_at, k.created_at), '|' order by k.id))
+      from api_tokens k where k.user_id in (${users})
     union all select 'activity', md5(string_agg(a::text, '|' order by a.id)) from activity a where a.team_id in (${teamList})
     union all select 'sessions', md5(string_agg(concat_ws(',', x.id_hash, x.user_id, x.expires_at, x.updated_at), '|' order by x.id_hash)) from sessions x
       where x.user_id in (${users})

@@ -125,6 +125,32 @@ export function ProfileForm({
           </div>
         </Section>
 
+        <Section
+          title="Sprites"
+          hint="What the target can show of a sprite: a sprite with more colours is refused for effects using this profile."
+        >
+          <div className="grid grid-cols-2 gap-3 md:grid-cols-4">
+            <Field
+              label="Colour limit"
+              name="profile-maxColours"
+              error={e.maxColours}
+              hint={`colours per sprite, background included, ${options.colours.min}–${options.colours.max}; empty for none`}
+            >
+              <TextInput
+                id="profile-maxColours"
+                name="maxColours"
+                type="number"
+                inputMode="numeric"
+                min={options.colours.min}
+                max={options.colours.max}
+                defaultValue={String(values.maxColours ?? "")}
+                className="num"
+                error={e.maxColours}
+              />
+            </Field>
+          </div>
+        </Section>
+
         <Section title="Export" hint="What the profile's effects export by default; an export can still choose otherwise.">
           <div role="group" aria-labelledby="dialects-label" aria-describedby={e.dialects ? "profile-dialects-error" : undefined}>
             <p id="dialects-label" className="mb-2 text-xs font-medium uppercase tracking-wide text-ink-400">

@@ -65,7 +65,8 @@ function show(value: unknown): string {
     const text = JSON.stringify(value);
     return text.length > 40 ? `${text.slice(0, 37)}...` : text;
   } catch {
-    return String(value);
+    // Too deep to write out: String() of a list recurses as deep as JSON.stringify does, so it is not asked.
+    return Array.isArray(value) ? "a list nested too deep to show" : String(value);
   }
 }
 

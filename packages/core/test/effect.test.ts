@@ -153,6 +153,16 @@ describe("every bad field is rejected with a message naming the field, the value
     for (const doc of [null, 3, "effect", [minimal()]]) expect(checkEffect(doc).ok).toBe(false);
   });
 
+  it("a list nested too deep to write out is rejected with a message, not a thrown RangeError", () => {
+    let deep: unknown[] = [];
+    for (let i = 0; i < 100_000; i++) deep = [deep];
+    for (const doc of [deep, withField("canvas", deep)]) {
+      const result = checkEffect(doc);
+      expect(result.ok).toBe(false);
+      expect(!result.ok && result.issues[0].message).toContain("a list nested too deep to show");
+    }
+  });
+
   it("reports every bad field at once, cross-field checks included", () => {
     const doc = {
       canvas: { width: 8, height: 0 },

@@ -1,0 +1,2 @@
+ALTER TABLE "target_profiles" ADD COLUMN "max_colours" integer;--> statement-breakpoint
+ALTER TABLE "target_profiles" ADD CONSTRAINT "target_profiles_max_colours_check" CHECK ("target_profiles"."max_colours" is null or "target_profiles"."max_colours" between 2 and 256);
