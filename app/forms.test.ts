@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { z } from "zod";
 import { createTeamForm, descriptionText, nameText, parseForm, projectDetailsForm, renameEffectForm } from "./forms.ts";
 import { targetProfileInput } from "./effects/settings.ts";
+import { PROFILE_FORM } from "../tests/factories.ts";
 
 const form = (entries: [string, string | Blob][]) => {
   const f = new FormData();
@@ -104,17 +105,7 @@ describe("the one text rule", () => {
   });
 
   it("is the rule of target profile names and descriptions too", () => {
-    const valid = {
-      name: "Wide",
-      canvasWidth: "256",
-      canvasHeight: "224",
-      fixedPointBits: "16",
-      fixedPointFraction: "8",
-      rounding: "nearest-away",
-      halfTurn: "flip",
-      edges: "wrap",
-      columnGroup: "1",
-    };
+    const valid = { ...PROFILE_FORM, name: "Wide" };
     expect(targetProfileInput.safeParse(valid).success).toBe(true);
     expect(targetProfileInput.safeParse({ ...valid, name: "Wide\u202e" }).success).toBe(false);
     expect(targetProfileInput.safeParse({ ...valid, description: "x\u0000" }).success).toBe(false);

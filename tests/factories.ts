@@ -113,3 +113,15 @@ export async function makeEffect(
     spriteId: input.sprite?.id,
   });
 }
+
+/** The fields of a valid target profile form (a 256 × 224 screen, Q8.8), as the page posts them; spread and override. */
+export const PROFILE_FORM = {
+  canvasWidth: "256",
+  canvasHeight: "224",
+  fixedPointBits: "16",
+  fixedPointFraction: "8",
+  rounding: "nearest-away",
+  halfTurn: "flip",
+  edges: "wrap",
+  columnGroup: "1",
+} as const;

@@ -2,6 +2,7 @@ import { checkEffect, EFFECT_FORMAT, parseEffect } from "@skewsmith/core";
 import { describe, expect, it } from "vitest";
 import { describeAngles, qNotation } from "./display.ts";
 import { newEffectDocument, targetProfileInput } from "./settings.ts";
+import { PROFILE_FORM } from "../../tests/factories.ts";
 
 describe("newEffectDocument", () => {
   it("is a valid 64 × 64 effect with the pivot at the centre and a 64-frame full turn, core's defaults elsewhere", () => {
@@ -89,17 +90,7 @@ describe("targetProfileInput", () => {
   });
 
   it("takes a colour limit from 2 to 256, blank or missing for none, and names the range otherwise", () => {
-    const valid = {
-      name: "Limited",
-      canvasWidth: "160",
-      canvasHeight: "144",
-      fixedPointBits: "16",
-      fixedPointFraction: "8",
-      rounding: "nearest-away",
-      halfTurn: "flip",
-      edges: "wrap",
-      columnGroup: "1",
-    };
+    const valid = { ...PROFILE_FORM, name: "Limited", canvasWidth: "160", canvasHeight: "144" };
     for (const [given, kept] of [
       ["4", 4],
       ["2", 2],

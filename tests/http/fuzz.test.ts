@@ -25,6 +25,20 @@ const RUNS = Number(process.env.SKEWSMITH_FUZZ_RUNS ?? 60);
  */
 const SURVEY = process.env.SKEWSMITH_FUZZ_SURVEY === "1";
 
+/** The settings of a target profile form, shared by its creation and its edit. */
+const PROFILE_FIELDS: NonNullable<FuzzTarget["fields"]> = {
+  canvasWidth: { kind: "int", valid: "256", min: 1, max: 4096 },
+  canvasHeight: { kind: "int", valid: "224", min: 1, max: 4096 },
+  fixedPointBits: { kind: "enum", valid: "16", values: ["8", "16", "32"] },
+  fixedPointFraction: { kind: "int", valid: "8", min: 0, max: 15 },
+  rounding: { kind: "enum", valid: "nearest-away", values: ROUNDINGS },
+  halfTurn: { kind: "enum", valid: "flip", values: HALF_TURNS },
+  edges: { kind: "enum", valid: "wrap", values: EDGES },
+  columnGroup: { kind: "int", valid: "1", min: 1, max: 4096 },
+  labelPrefix: { kind: "token", valid: "rot", optional: true },
+  maxColours: { kind: "int", valid: "16", min: 2, max: 256, optional: true },
+};
+
 export const TARGETS: FuzzTarget[] = [
   { name: "home (no action)", path: () => "/", bodyOnly: true, intent: "create-team" },
   {
@@ -52,16 +66,7 @@ export const TARGETS: FuzzTarget[] = [
     fields: {
       name: { kind: "name", valid: "Fuzzed profile" },
       description: { kind: "description", valid: "", optional: true },
-      canvasWidth: { kind: "int", valid: "256", min: 1, max: 4096 },
-      canvasHeight: { kind: "int", valid: "224", min: 1, max: 4096 },
-      fixedPointBits: { kind: "enum", valid: "16", values: ["8", "16", "32"] },
-      fixedPointFraction: { kind: "int", valid: "8", min: 0, max: 15 },
-      rounding: { kind: "enum", valid: "nearest-away", values: ROUNDINGS },
-      halfTurn: { kind: "enum", valid: "flip", values: HALF_TURNS },
-      edges: { kind: "enum", valid: "wrap", values: EDGES },
-      columnGroup: { kind: "int", valid: "1", min: 1, max: 4096 },
-      labelPrefix: { kind: "token", valid: "rot", optional: true },
-      maxColours: { kind: "int", valid: "16", min: 2, max: 256, optional: true },
+      ...PROFILE_FIELDS,
     },
   },
   {
@@ -215,16 +220,7 @@ export const TARGETS: FuzzTarget[] = [
       name: { kind: "name", valid: "Fuzzed profile edit" },
       description: { kind: "description", valid: "", optional: true },
       version: { kind: "version", valid: (w) => String(w.profile.version) },
-      canvasWidth: { kind: "int", valid: "256", min: 1, max: 4096 },
-      canvasHeight: { kind: "int", valid: "224", min: 1, max: 4096 },
-      fixedPointBits: { kind: "enum", valid: "16", values: ["8", "16", "32"] },
-      fixedPointFraction: { kind: "int", valid: "8", min: 0, max: 15 },
-      rounding: { kind: "enum", valid: "nearest-away", values: ROUNDINGS },
-      halfTurn: { kind: "enum", valid: "flip", values: HALF_TURNS },
-      edges: { kind: "enum", valid: "wrap", values: EDGES },
-      columnGroup: { kind: "int", valid: "1", min: 1, max: 4096 },
-      labelPrefix: { kind: "token", valid: "rot", optional: true },
-      maxColours: { kind: "int", valid: "16", min: 2, max: 256, optional: true },
+      ...PROFILE_FIELDS,
     },
   },
   {

@@ -13,6 +13,7 @@ import { listSprites } from "../../app/models/sprites.server.ts";
 import { listActivity } from "../../app/models/activity.server.ts";
 import { makeWorld, type World } from "../support/world.ts";
 import { messageOf } from "../support/fuzz.ts";
+import { PROFILE_FORM } from "../factories.ts";
 
 const db = createDb(process.env.DATABASE_URL!, { max: 2 });
 let world: World;
@@ -136,14 +137,7 @@ describe("saves from one version", () => {
           intent: "save-profile",
           version: String(profile.version),
           name: `Raced profile ${k}`,
-          canvasWidth: "256",
-          canvasHeight: "224",
-          fixedPointBits: "16",
-          fixedPointFraction: "8",
-          rounding: "nearest-away",
-          halfTurn: "flip",
-          edges: "wrap",
-          columnGroup: "1",
+          ...PROFILE_FORM,
         }),
       8,
     );
