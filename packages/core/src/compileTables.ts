@@ -3,7 +3,7 @@ import { coefficients } from "./coefficients.ts";
 import type { Effect } from "./effect.ts";
 import { elementType, type ElementType } from "./elementType.ts";
 import { frameAngle } from "./frameAngle.ts";
-import { beginDiagnoseTrack, diagnoseTrack, type DiagnoseOptions } from "./diagnostics/diagnoseTrack.ts";
+import { diagnoseTrack, type DiagnoseOptions } from "./diagnostics/diagnoseTrack.ts";
 import type { FrameDiagnostics } from "./frameDiagnostics.ts";
 import { columnShiftsInto, rowShiftsInto } from "./shiftTable.ts";
 
@@ -147,35 +147,4 @@ export function compileTables(effect: Effect, options: CompileOptions = {}): Com
   const { elementType: type, frames } = compileShifts(effect);
   const diagnostics = diagnoseTrack(effect, frames, options);
   return { effect, elementType: type, frames: frames.map((f, i) => ({ ...f, ...diagnostics[i] })) };
-}
-
-/** compileTables under way (beginTables): the tables now, their diagnostics when finished. */
-export interface PendingTables {
-  /** The tables without diagnostics, as compileShifts gives them. */
-  readonly shifts: CompiledTables<FrameTables>;
-  /** Hands the worker threads more frames to measure: call it between other work. */
-  pump(): void;
-  /** The tables with their diagnostics, as compileTables gives them (the same figures). */
-  finish(): CompiledTables;
-}
-
-/**
- * compileTables in two halves, for a caller with other work to do meanwhile: the tables at once, the diagnostics of a
- * large track started on the worker threads; finish() measures the rest on the calling thread and returns what
- * compileTables would have.
- */
-export function beginTables(effect: Effect, options: CompileOptions = {}): PendingTables {
-  const shifts = compileShifts(effect);
-  const pending = beginDiagnoseTrack(effect, shifts.frames, options);
-  let done: CompiledTables | undefined;
-  return {
-    shifts,
-    pump: () => pending.pump(),
-    finish: () => {
-      if (done) return done;
-      const diagnostics = pending.finish();
-      done = { effect, elementType: shifts.elementType, frames: shifts.frames.map((f, i) => ({ ...f, ...diagnostics[i] })) };
-      return done;
-    },
-  };
 }

@@ -34,44 +34,6 @@ export function diagnoseTrack(
   frames: readonly (FrameShifts & { readonly degrees: number })[],
   options: DiagnoseOptions = {},
 ): FrameDiagnostics[] {
-  return startTrack(effect, frames, options, false).finish();
-}
-
-/** Diagnostics of a track under way (beginDiagnoseTrack). */
-export interface PendingDiagnostics {
-  /** Hands the worker threads more frames, if any work for them: call it between other work. */
-  pump(): void;
-  /** The diagnostics of every frame, in frame order, the calling thread measuring its share of what is left. */
-  finish(): FrameDiagnostics[];
-}
-
-/**
- * diagnoseTrack in two halves, for a caller with other work to do meanwhile (an export writing its text files): a large
- * track's frames go to the worker threads at once, and finish() measures the rest on this thread and gathers all. A
- * track too small for workers, or a platform without them, is measured in finish(). The figures are diagnoseTrack's.
- */
-export function beginDiagnoseTrack(
-  effect: Effect,
-  frames: readonly (FrameShifts & { readonly degrees: number })[],
-  options: DiagnoseOptions = {},
-): PendingDiagnostics {
-  return startTrack(effect, frames, options, true);
-}
-
-/**
- * Ranges per thread when the workers start ahead of the caller: finer, so that the caller, joining late, still finds
- * ranges left to take and the threads end together.
- */
-const AHEAD_RANGES_PER_THREAD = 32;
-/** Ranges handed to each worker ahead of finish() (and topped up by pump()): a quarter of its share. */
-const AHEAD_PER_WORKER = AHEAD_RANGES_PER_THREAD / 4;
-
-function startTrack(
-  effect: Effect,
-  frames: readonly (FrameShifts & { readonly degrees: number })[],
-  options: DiagnoseOptions,
-  early: boolean,
-): PendingDiagnostics {
   const { mask } = options;
   const { width, height } = effect.canvas;
   if (mask !== undefined && mask.length !== width * height)
@@ -85,10 +47,10 @@ function startTrack(
     for (let i = range.start; i < range.end; i++) setFrame(out, i, measureFrame(frames[i], effect, mask, symmetric));
     return out;
   };
-  const each = (result: FramesDiagnostics) => frames.map((_, i) => frameAt(result, i));
+  const all = { start: 0, end: frames.length };
   const pool = workers > 0 && frames.length > 1 && frames.length * width * height >= POOL_MIN_CHECKS ? nodePool() : null;
-  if (pool === null) return { pump: () => {}, finish: () => each(local({ start: 0, end: frames.length })) };
-  const parts = (workers + 1) * (early ? AHEAD_RANGES_PER_THREAD : RANGES_PER_THREAD);
-  const run = pool.begin(effect, mask, splitFrames(frames.length, parts), workers, early ? AHEAD_PER_WORKER : 0);
-  return { pump: () => run.pump(), finish: () => each(mergeDiagnostics(run.finish(local))) };
+  const result = pool
+    ? mergeDiagnostics(pool.run(effect, mask, splitFrames(frames.length, (workers + 1) * RANGES_PER_THREAD), workers, local))
+    : local(all);
+  return frames.map((_, i) => frameAt(result, i));
 }

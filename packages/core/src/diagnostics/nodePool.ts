@@ -119,14 +119,6 @@ function workerEntry(b: Builtins): WorkerEntry | null {
   return { entry: entry.href, loader };
 }
 
-/** Diagnostics under way on a pool's workers (DiagnosticsPool.begin). */
-export interface PoolRun {
-  /** Reads the answers in and hands the workers more ranges: call it between other work, as often as is cheap. */
-  pump(): void;
-  /** Measures what is left (this thread taking its share), waits for the workers, and returns every range's result. */
-  finish(local: (range: FrameRange) => FramesDiagnostics): FramesDiagnostics[];
-}
-
 /** Where a worker's module is (a file: URL) and the loader to register first (a file: URL), if any. */
 export interface WorkerEntry {
   readonly entry: string;
@@ -188,17 +180,6 @@ export class DiagnosticsPool {
     workers: number,
     local: (range: FrameRange) => FramesDiagnostics,
   ): FramesDiagnostics[] {
-    return this.begin(effect, mask, ranges, workers, 0).finish(local);
-  }
-
-  /**
-   * Starts measuring `ranges` of `effect` on up to `workers` worker threads and returns at once, so that the calling
-   * thread can do other work meanwhile: up to `ahead` ranges per worker are handed out now (queued on a worker still
-   * starting), and `pump()` tops them up again whenever the caller has a moment. `finish(local)` then measures what is
-   * left as run() does, this thread taking its share, and returns the results in the order of `ranges`. With `ahead`
-   * 0 nothing is handed out before finish: run() is begin(…, 0).finish(local).
-   */
-  begin(effect: Effect, mask: Uint8Array | undefined, ranges: readonly FrameRange[], workers: number, ahead: number): PoolRun {
     this.grow(workers);
     const team = this.workers.filter((w) => !w.dead).slice(0, workers);
     // Answers to an earlier call that ended early (it threw) are not this call's: their ids are forgotten.
@@ -210,7 +191,6 @@ export class DiagnosticsPool {
       shared.set(mask);
     }
     const results: (FramesDiagnostics | undefined)[] = new Array(ranges.length);
-    // Handed out from the front, measured here from the back: the two meet in the middle.
     const queue = ranges.map((_, i) => i);
     let done = 0;
     let slowestLocal = 0;
@@ -237,14 +217,15 @@ export class DiagnosticsPool {
         }
       }
     };
-    const post = (w: PoolWorker) => {
-      const i = queue.shift()!;
-      const id = this.nextId++;
-      w.pending.set(id, [i, performance.now()]);
-      w.port.postMessage(diagnosticsRequest(effect, ranges[i], { id, mask: shared }));
-    };
-    const feed = (inFlight: number, readyOnly: boolean) => {
-      for (const w of team) while ((w.ready || !readyOnly) && !w.dead && w.pending.size < inFlight && queue.length > 0) post(w);
+    const feed = () => {
+      for (const w of team) {
+        while (w.ready && !w.dead && w.pending.size < IN_FLIGHT && queue.length > 0) {
+          const i = queue.shift()!;
+          const id = this.nextId++;
+          w.pending.set(id, [i, performance.now()]);
+          w.port.postMessage(diagnosticsRequest(effect, ranges[i], { id, mask: shared }));
+        }
+      }
     };
     const checkStalls = () => {
       const now = performance.now();
@@ -255,37 +236,27 @@ export class DiagnosticsPool {
             break;
           }
     };
-    if (ahead > 0) feed(ahead, false);
-    return {
-      pump: () => {
-        if (ahead === 0) return;
-        receive();
-        feed(ahead, false);
-      },
-      finish: (local) => {
-        while (done < ranges.length) {
-          receive();
-          feed(IN_FLIGHT, true);
-          const i = queue.pop();
-          if (i !== undefined) {
-            if (results[i] !== undefined) continue;
-            const start = performance.now();
-            finish(i, local(ranges[i]));
-            slowestLocal = Math.max(slowestLocal, performance.now() - start);
-            continue;
-          }
-          if (done === ranges.length) break;
-          // Nothing left here but ranges in flight: sleep until a worker posts (or a second passes, to look for stalls).
-          const seen = Atomics.load(this.signal, 0);
-          receive();
-          if (done < ranges.length && queue.length === 0) {
-            Atomics.wait(this.signal, 0, seen, 1000);
-            checkStalls();
-          }
-        }
-        return results as FramesDiagnostics[];
-      },
-    };
+    while (done < ranges.length) {
+      receive();
+      feed();
+      const i = queue.pop();
+      if (i !== undefined) {
+        if (results[i] !== undefined) continue;
+        const start = performance.now();
+        finish(i, local(ranges[i]));
+        slowestLocal = Math.max(slowestLocal, performance.now() - start);
+        continue;
+      }
+      if (done === ranges.length) break;
+      // Nothing left here but ranges in flight: sleep until a worker posts (or a second passes, to look for stalls).
+      const seen = Atomics.load(this.signal, 0);
+      receive();
+      if (done < ranges.length && queue.length === 0) {
+        Atomics.wait(this.signal, 0, seen, 1000);
+        checkStalls();
+      }
+    }
+    return results as FramesDiagnostics[];
   }
 
   /** Gives a worker up: its ranges go back to the queue, and it is stopped. */

@@ -1,4 +1,4 @@
-import { beginTables, compileShifts } from "../compileTables.ts";
+import { compileShifts, compileTables } from "../compileTables.ts";
 import type { Effect } from "../effect.ts";
 import { armSource } from "./arm.ts";
 import { binaryExport } from "./binary.ts";
@@ -97,10 +97,8 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, o
   const total = resolved.outputs.length + 1;
   let done = 0;
   const step = (name: string) => onProgress?.(++done, total, name);
-  // Only the tables document needs the diagnostics: they are started on the worker threads (where there are any) and
-  // measured while this thread writes the outputs before it, and finished when the document is written.
-  const pending = resolved.outputs.includes("json") ? beginTables(effect) : null;
-  const tables = pending?.shifts ?? compileShifts(effect);
+  const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
+  const tables = full ?? compileShifts(effect);
   step("tables");
   const budget = budgetFromTables(tables, resolved);
   if (budget.totalBytes > EXPORT_MAX_BYTES)
@@ -110,11 +108,8 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, o
   const layout = layoutFromTables(tables, resolved);
   const outputs = outputTexts(
     layout,
-    () => tablesJson((pending ?? beginTables(effect)).finish()),
-    (output) => {
-      pending?.pump();
-      step(output);
-    },
+    () => tablesJson(full ?? compileTables(effect)),
+    (output) => step(output),
   );
   const enc = new TextEncoder();
   const [readmeName, effectName] = alwaysFiles(layout.label);

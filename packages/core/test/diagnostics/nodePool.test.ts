@@ -1,7 +1,6 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { DiagnosticsPool, nodePool } from "../../src/diagnostics/nodePool.ts";
 import { POOL_MIN_CHECKS } from "../../src/diagnostics/diagnoseTrack.ts";
-import { beginTables } from "../../src/compileTables.ts";
 import { diagnoseFrames, splitFrames, compileTables, parseEffect, type CompiledTables } from "../../src/index.ts";
 
 // Just above the size at which compileTables spreads a track over worker threads.
@@ -31,22 +30,6 @@ describe("compileTables on worker threads (Node)", () => {
     expect(figures(compileTables(large, { mask, workers: 2 }))).toEqual(figures(compileTables(large, { mask, workers: 0 })));
   });
 
-  it("gives the same figures when the workers start ahead of the caller (beginTables, pumped or not), bit for bit", () => {
-    const pending = beginTables(large, { workers: 1 });
-    expect(pending.shifts.frames.map((f) => [f.index, f.alpha, f.beta, f.flip])).toEqual(
-      alone.frames.map((f) => [f.index, f.alpha, f.beta, f.flip]),
-    );
-    // Some work on this thread meanwhile, with the pump between pieces of it, as an export does.
-    for (let i = 0; i < 5; i++) {
-      compileTables({ ...large, angles: { list: [i] } }, { workers: 0 });
-      pending.pump();
-    }
-    expect(figures(pending.finish())).toEqual(figures(alone));
-    expect(pending.finish(), "finished once, kept").toBe(pending.finish());
-    expect(figures(beginTables(large, { workers: 2 }).finish())).toEqual(figures(alone));
-    expect(figures(beginTables(large, { workers: 0 }).finish())).toEqual(figures(alone));
-  });
-
   it("refuses a worker count that is not a whole number from 0 to 256", () => {
     expect(() => compileTables(large, { workers: -1 })).toThrow("workers: -1 is not allowed; allowed a whole number from 0 to 256");
     expect(() => compileTables(large, { workers: 1.5 })).toThrow("workers: 1.5 is not allowed");
@@ -72,20 +55,6 @@ describe("DiagnosticsPool when workers fail", () => {
     expect(local).toBe(12);
     expect(results.map((r) => [r.start, r.end])).toEqual(ranges.map((r) => [r.start, r.end]));
     expect(results.flatMap((r) => Array.from(r.maxErrorPx))).toEqual(Array.from(diagnoseFrames(small).maxErrorPx));
-  });
-
-  it("measures everything on the calling thread when ranges were handed ahead to workers that cannot load", () => {
-    const small = parseEffect({
-      canvas: { width: 64, height: 48 },
-      pivot: { x: 32, y: 24 },
-      angles: { sweep: { from: 0, to: 360, frames: 40 } },
-    });
-    const ranges = splitFrames(40, 12);
-    const run = broken.begin(small, undefined, ranges, 2, 4);
-    run.pump();
-    const results = run.finish((range) => diagnoseFrames(small, range));
-    expect(results.map((r) => [r.start, r.end])).toEqual(ranges.map((r) => [r.start, r.end]));
-    expect(results.flatMap((r) => Array.from(r.meanErrorPx))).toEqual(Array.from(diagnoseFrames(small).meanErrorPx));
   });
 });
 
