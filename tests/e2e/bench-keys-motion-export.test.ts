@@ -30,8 +30,8 @@ const tableRows = (page: Page) =>
 
 describe("key pixels", () => {
   it("are marked by clicking the source, unmarked by a second click, followed on every frame in the table, and saved", async () => {
-    const document = { canvas: { width: 20, height: 18 }, pivot: { x: 10, y: 9 }, angles: { sweep: { from: 0, to: 360, frames: 24 } } };
-    const world = await benchWorld(db, document, { sprite: true });
+    const effectDoc = { canvas: { width: 20, height: 18 }, pivot: { x: 10, y: 9 }, angles: { sweep: { from: 0, to: 360, frames: 24 } } };
+    const world = await benchWorld(db, effectDoc, { sprite: true });
     const { context, page } = await signInAs(browser, world.editor, { viewport: { width: 1280, height: 800 } });
     await page.goto(`/effects/${world.effect.id}?frame=5&pass=3&zoom=8`);
     await waitForTable(page, 24);
@@ -117,8 +117,8 @@ describe("key pixels", () => {
 
 describe("reduced motion", () => {
   it("holds playback to 6 fps or slower while the system asks for it, and says so beside the caution", async () => {
-    const document = { canvas: { width: 20, height: 18 }, pivot: { x: 10, y: 9 }, angles: { sweep: { from: 0, to: 360, frames: 600 } } };
-    const world = await benchWorld(db, document, { sprite: true });
+    const effectDoc = { canvas: { width: 20, height: 18 }, pivot: { x: 10, y: 9 }, angles: { sweep: { from: 0, to: 360, frames: 600 } } };
+    const world = await benchWorld(db, effectDoc, { sprite: true });
     const { context, page } = await signInAs(browser, world.editor);
     await page.emulateMedia({ reducedMotion: "reduce" });
     await page.goto(`/effects/${world.effect.id}`);
@@ -156,8 +156,8 @@ describe("reduced motion", () => {
 
 describe("a long track's export", () => {
   it("makes the files of a 4096-frame effect in the worker with a progress bar while the page keeps drawing", async () => {
-    const document = { canvas: { width: 96, height: 64 }, pivot: { x: 48, y: 32 }, angles: { sweep: { from: 0, to: 360, frames: 4096 } } };
-    const world = await benchWorld(db, document);
+    const effectDoc = { canvas: { width: 96, height: 64 }, pivot: { x: 48, y: 32 }, angles: { sweep: { from: 0, to: 360, frames: 4096 } } };
+    const world = await benchWorld(db, effectDoc);
     const { context, page } = await signInAs(browser, world.editor);
     await page.goto(`/effects/${world.effect.id}`);
     // 4096 × (96 + 64) shifts is past what the panel makes by itself: it offers to make them.
