@@ -34,10 +34,12 @@ describe("compassRose", () => {
 });
 
 describe("stormBackground", () => {
-  it("fills a 256 × 224 screen with opaque colours only", () => {
+  it("fills a 256 × 224 screen with opaque colours only, index 0 being the transparent background it never uses", () => {
     const storm = stormBackground();
     expect([storm.width, storm.height]).toEqual([256, 224]);
-    expect(storm.palette.every((c) => c[3] === 255)).toBe(true);
+    expect(storm.palette[0]).toEqual([0, 0, 0, 0]);
+    expect(storm.palette.slice(1).every((c) => c[3] === 255)).toBe(true);
+    expect(Math.min(...storm.data)).toBeGreaterThan(0);
     expect(Math.max(...storm.data)).toBeLessThan(storm.palette.length);
     // Sky above, sea below: the top row and the bottom row share no colour.
     const top = new Set(storm.data.subarray(0, 256));

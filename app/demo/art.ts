@@ -81,21 +81,26 @@ export function compassRose(size = 32): IndexedImage {
   return { kind: "indexed", width: size, height: size, data: indices, palette: COMPASS_PALETTE };
 }
 
-/** Palette of the storm background: opaque only (a background covers the whole screen). */
+/**
+ * Palette of the storm background. Index 0 is the transparent background, as for the rose: the picture itself uses
+ * only the opaque colours 1 to 13, so a frame on a canvas grown past the screen shows the turned picture over nothing
+ * rather than over a band of night sky (placing a picture in a larger canvas fills the rest with index 0).
+ */
 export const STORM_PALETTE: readonly Rgba[] = [
-  [12, 16, 28, 255], // 0 night sky
-  [24, 32, 52, 255], // 1 sky band
-  [38, 48, 72, 255], // 2 sky band
-  [58, 68, 94, 255], // 3 cloud shadow
-  [88, 98, 124, 255], // 4 cloud
-  [132, 142, 164, 255], // 5 cloud light
-  [18, 40, 54, 255], // 6 deep sea
-  [28, 62, 78, 255], // 7 sea
-  [52, 98, 112, 255], // 8 wave
-  [170, 204, 210, 255], // 9 foam
-  [10, 12, 18, 255], // 10 harbour wall
-  [230, 196, 110, 255], // 11 lamp
-  [96, 120, 150, 255], // 12 rain
+  [0, 0, 0, 0], // 0 transparent background
+  [12, 16, 28, 255], // 1 night sky
+  [24, 32, 52, 255], // 2 sky band
+  [38, 48, 72, 255], // 3 sky band
+  [58, 68, 94, 255], // 4 cloud shadow
+  [88, 98, 124, 255], // 5 cloud
+  [132, 142, 164, 255], // 6 cloud light
+  [18, 40, 54, 255], // 7 deep sea
+  [28, 62, 78, 255], // 8 sea
+  [52, 98, 112, 255], // 9 wave
+  [170, 204, 210, 255], // 10 foam
+  [10, 12, 18, 255], // 11 harbour wall
+  [230, 196, 110, 255], // 12 lamp
+  [96, 120, 150, 255], // 13 rain
 ];
 
 /** A deterministic pseudo-random number in [0, 1) for integer coordinates (no state, same picture every run). */
@@ -139,31 +144,31 @@ export function stormBackground(width = 256, height = 224): IndexedImage {
       if (y < horizon) {
         const t = y / horizon;
         const band = t * 2.2 + threshold * 0.9;
-        index = band < 1 ? 0 : band < 2 ? 1 : 2;
+        index = band < 1 ? 1 : band < 2 ? 2 : 3;
         const cloud = smoothNoise(x, y * 1.8, 36, 7) * 0.65 + smoothNoise(x, y * 1.8, 14, 11) * 0.35;
         const c = cloud - 0.42 + t * 0.08;
-        if (c > 0.22 + threshold * 0.08) index = 5;
-        else if (c > 0.12 + threshold * 0.06) index = 4;
-        else if (c > 0.03 + threshold * 0.05) index = 3;
+        if (c > 0.22 + threshold * 0.08) index = 6;
+        else if (c > 0.12 + threshold * 0.06) index = 5;
+        else if (c > 0.03 + threshold * 0.05) index = 4;
         // Slanted rain streaks.
-        if ((x + Math.floor(y / 2)) % 23 === 0 && hash(x, Math.floor(y / 6), 3) > 0.45) index = 12;
+        if ((x + Math.floor(y / 2)) % 23 === 0 && hash(x, Math.floor(y / 6), 3) > 0.45) index = 13;
       } else {
         const depth = (y - horizon) / (height - horizon);
-        index = depth + threshold * 0.35 < 0.45 ? 6 : 7;
+        index = depth + threshold * 0.35 < 0.45 ? 7 : 8;
         const wave = Math.sin(x / (9 + depth * 10) + y * 0.9 + smoothNoise(x, y, 20, 5) * 5);
-        if (wave > 0.86) index = 8;
-        if (wave > 0.97 && hash(x, y, 9) > 0.5) index = 9;
+        if (wave > 0.86) index = 9;
+        if (wave > 0.97 && hash(x, y, 9) > 0.5) index = 10;
       }
       indices[y * width + x] = index;
     }
   // The harbour mole on the right, with a lamp post.
   const moleTop = horizon - Math.round(height * 0.05);
-  for (let y = moleTop; y < horizon + 6; y++) for (let x = Math.round(width * 0.68); x < width; x++) indices[y * width + x] = 10;
+  for (let y = moleTop; y < horizon + 6; y++) for (let x = Math.round(width * 0.68); x < width; x++) indices[y * width + x] = 11;
   const postX = Math.round(width * 0.86);
   for (let y = moleTop - 30; y < moleTop; y++) {
-    indices[y * width + postX] = 10;
-    indices[y * width + postX + 1] = 10;
+    indices[y * width + postX] = 11;
+    indices[y * width + postX + 1] = 11;
   }
-  for (let y = moleTop - 34; y < moleTop - 30; y++) for (let x = postX - 1; x < postX + 3; x++) indices[y * width + x] = 11;
+  for (let y = moleTop - 34; y < moleTop - 30; y++) for (let x = postX - 1; x < postX + 3; x++) indices[y * width + x] = 12;
   return { kind: "indexed", width, height, data: indices, palette: STORM_PALETTE };
 }

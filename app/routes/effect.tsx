@@ -16,7 +16,7 @@ import { formText, readForm } from "../http.server.ts";
 import { saveEffectBench } from "../models/effects.server.ts";
 import { DomainError } from "../models/errors.ts";
 import { listSprites } from "../models/sprites.server.ts";
-import { listTargetProfiles } from "../models/targetProfiles.server.ts";
+import { getProfileChange, listTargetProfiles } from "../models/targetProfiles.server.ts";
 import { displayName, getUser } from "../models/users.server.ts";
 import { hasRole } from "../roles.ts";
 
@@ -28,11 +28,12 @@ export const handle = { wide: true };
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { team, project, effect, role } = await requireEffectRole(request, params.effectId, "viewer");
   const saved = benchState(effect);
-  const [profiles, sprites, updatedBy, diagnostics] = await Promise.all([
+  const [profiles, sprites, updatedBy, diagnostics, profileChange] = await Promise.all([
     listTargetProfiles(db(), team.id),
     listSprites(db(), project.id),
     effect.updatedBy ? getUser(db(), effect.updatedBy) : null,
     savedDiagnostics(db(), effect),
+    getProfileChange(db(), effect.id),
   ]);
   const frames =
     diagnostics.rows?.length ?? ("list" in saved.document.angles ? saved.document.angles.list.length : saved.document.angles.sweep.frames);
@@ -63,6 +64,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     })),
     sprites,
     diagnostics,
+    /** The last change of its target profile that reached the effect (who, when, each setting before and after). */
+    profileChange,
     exportDefaults: exportChoiceFrom(exportDefaultsForProfile(profile, effect.name), effect.name),
     view: viewFromSearch(new URL(request.url).searchParams, frames, saved.document.canvas),
   };

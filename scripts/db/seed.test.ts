@@ -7,7 +7,7 @@ import { effects, memberships, projects, sprites, targetProfiles, teams, users }
 import { DEMO_TEAM } from "../../app/demo/people.ts";
 import { listEffects } from "../../app/models/effects.server.ts";
 import { listMembers } from "../../app/models/teams.server.ts";
-import { placedSource } from "../../app/effects/frames.ts";
+import { framePicture, placedSource } from "../../app/effects/frames.ts";
 import { spritePlacement } from "../../app/effects/placement.ts";
 import { getSpriteImage } from "../../app/models/sprites.server.ts";
 import { seedDemo } from "./seed.ts";
@@ -100,6 +100,30 @@ describe("seedDemo", () => {
       const fit = canvasFit(stormDoc, { mask: stormMask });
       expect(storm.description).toMatch(/^Deliberately tight/);
       expect(storm.description).toContain(`${fit.width} × ${fit.height}`);
+
+      // The harbour as stored: index 0 of its palette is the transparent background and no pixel of the picture uses
+      // it, so every pixel of the picture is opaque (the mask is the whole screen).
+      const [stormRow] = await db.select().from(sprites).where(eq(sprites.id, storm.spriteId!));
+      const stored = decodePng(stormRow.png);
+      if (stored.kind !== "indexed") throw new Error("the harbour must be indexed");
+      expect([stored.width, stored.height]).toEqual([256, 224]);
+      expect(stored.palette[0]).toEqual([0, 0, 0, 0]);
+      expect(stored.palette.slice(1).every((c) => c[3] === 255)).toBe(true);
+      expect(stored.data.includes(0)).toBe(false);
+      expect(stormRow.palette).toEqual(stored.palette);
+      // On the canvas the advice names, the tilted harbour's last frame sits over a transparent background: exactly the
+      // pixels the picture does not cover are index 0 (wrap moves pixels, never drops them).
+      const grown = parseEffect({
+        ...storm.document,
+        canvas: { width: fit.width, height: fit.height },
+        pivot: { x: fit.width / 2, y: fit.height / 2 },
+      });
+      const last = framePicture(grown, placedSource(grown, stored, null, null), 47, 3);
+      if (last.kind !== "indexed") throw new Error("the frame of an indexed sprite must be indexed");
+      expect(last.palette).toEqual(stored.palette);
+      const background = last.data.reduce((n, i) => n + (i === 0 ? 1 : 0), 0);
+      expect(background).toBe(fit.width * fit.height - 256 * 224);
+      expect([0, fit.width - 1, (fit.height - 1) * fit.width, fit.width * fit.height - 1].map((i) => last.data[i])).toEqual([0, 0, 0, 0]);
 
       // The target profile the emblem follows has the emblem's canvas.
       const [profile] = await db.select().from(targetProfiles).where(eq(targetProfiles.id, emblem.targetProfileId!));

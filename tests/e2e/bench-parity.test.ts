@@ -2,7 +2,7 @@
  * The bench computes in the browser with the same core as the command line: its tables document and its frames'
  * pixels must equal `skewsmith tables` and `skewsmith render` for the same effect and picture.
  */
-import { decodePng, type IndexedImage } from "@skewsmith/core";
+import { compileTables, decodePng, opaqueMask, placeImage, type IndexedImage } from "@skewsmith/core";
 import { readFileSync } from "node:fs";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -70,6 +70,26 @@ describe("browser and command line agree", () => {
         await page.goto(`/effects/${world.effect.id}`);
         const frames = "list" in world.doc.angles ? world.doc.angles.list.length : world.doc.angles.sweep.frames;
         await waitForTable(page, frames);
+        // The per-frame table (the worker's, over the sprite's opaque pixels) shows what core's diagnostics give the
+        // command line's compileTables for the same mask: frame, max and mean error, wrapped, clipped.
+        const mask = opaqueMask(placeImage(world.image, width, height, at.x, at.y));
+        const wantRows = compileTables(world.doc, { mask, workers: 0 }).frames.map((f) => [
+          String(f.index),
+          f.maxErrorPx.toFixed(3),
+          f.meanErrorPx.toFixed(3),
+          String(f.wrapped),
+          String(f.clipped),
+        ]);
+        const shownRows = await page
+          .getByTestId("frame-table")
+          .locator("tbody tr")
+          .evaluateAll((trs) =>
+            trs.map((tr) => {
+              const cells = Array.from(tr.querySelectorAll("td"), (td) => td.textContent!.trim());
+              return [cells[0], cells[5], cells[6], cells[7], cells[8]];
+            }),
+          );
+        expect(shownRows).toEqual(wantRows);
         for (const label of await page.getByTestId("export-panel").locator("fieldset").first().getByRole("checkbox").all())
           if ((await label.isChecked()) !== ((await label.getAttribute("name")) === "output-json")) await label.click();
         await page

@@ -1,9 +1,11 @@
+import { decodePng, type IndexedImage } from "@skewsmith/core";
 import { eq } from "drizzle-orm";
+import { readFileSync } from "node:fs";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createDb } from "../../app/db/client.server.ts";
 import { effects } from "../../app/db/schema.ts";
-import { benchWorld, bufferSize, waitForTable } from "./benchWorld.ts";
+import { benchWorld, bufferSize, canvasPixels, waitForTable } from "./benchWorld.ts";
 import { launch, screenshot, signInAs, sameOrigin } from "./support.ts";
 
 const db = createDb(process.env.DATABASE_URL!, { max: 2 });
@@ -106,19 +108,49 @@ describe("the effect bench, for an editor", () => {
     await context.close();
   });
 
-  it("opens a deep link at its frame, pass and zoom", async () => {
+  it("opens a deep link at its frame, pass and zoom, and downloads that frame as the frame route draws it", async () => {
     const world = await benchWorld(db, ROSE_EFFECT, { sprite: true });
     const { context, page } = await signInAs(browser, world.editor);
     await page.goto(`/effects/${world.effect.id}?frame=7&pass=2&zoom=3`);
     await waitForTable(page, 24);
-    expect(await page.getByLabel("Frame", { exact: true }).inputValue()).toBe("7");
-    expect(await page.getByRole("radio", { name: /^Pass 2:/ }).isChecked()).toBe(true);
-    expect(await bufferSize(page)).toEqual([60, 54]);
-    expect(await page.getByRole("row", { name: /Go to frame 7/ }).getAttribute("aria-current")).toBe("true");
+    await expect.poll(() => page.getByLabel("Frame", { exact: true }).inputValue()).toBe("7");
+    await expect.poll(() => page.getByRole("radio", { name: /^Pass 2:/ }).isChecked()).toBe(true);
+    await expect.poll(() => bufferSize(page)).toEqual([60, 54]);
+    await expect.poll(() => page.getByRole("row", { name: /Go to frame 7/ }).getAttribute("aria-current")).toBe("true");
+    await expect.poll(() => [search(page).get("frame"), search(page).get("pass"), search(page).get("zoom")]).toEqual(["7", "2", "3"]);
+
+    // The bench's download button saves frame 7 after pass 2: the frame route's PNG, byte for byte, indexed with the
+    // sprite's palette; and the preview (drawn by the browser's worker) shows those pixels, each as a 3 × 3 block.
+    const [download] = await Promise.all([
+      page.waitForEvent("download"),
+      page.getByRole("link", { name: "Download this frame (PNG)" }).click(),
+    ]);
+    const downloaded = new Uint8Array(readFileSync((await download.path())!));
+    const route = await page.request.get(`/effects/${world.effect.id}/frames/7.png?pass=2`);
+    expect(route.status()).toBe(200);
+    expect(Buffer.from(downloaded).equals(await route.body())).toBe(true);
+    const frame = decodePng(downloaded);
+    if (frame.kind !== "indexed") throw new Error("the frame of an indexed sprite must be an indexed PNG");
+    expect([frame.width, frame.height]).toEqual([20, 18]);
+    expect(frame.palette).toEqual(world.image.palette);
+    const want = Array.from(frame.data, (i) => frame.palette[i]);
+    // Pass 2 of a 105° turn moved pixels: the frame is not the placed source (so the comparison below can fail).
+    const source = decodePng(new Uint8Array(await (await page.request.get(`/effects/${world.effect.id}/frames/7.png?pass=0`)).body()));
+    expect(Array.from((source as IndexedImage).data)).not.toEqual(Array.from(frame.data));
+    const sampled = async () => {
+      const rgba = await canvasPixels(page);
+      const out: number[][] = [];
+      for (let y = 0; y < 18; y++)
+        for (let x = 0; x < 20; x++)
+          out.push(Array.from(rgba.slice(((y * 3 + 1) * 60 + x * 3 + 1) * 4, ((y * 3 + 1) * 60 + x * 3 + 1) * 4 + 4)));
+      return JSON.stringify(out);
+    };
+    await expect.poll(sampled).toBe(JSON.stringify(want));
+
     // Nonsense in the address falls back to the defaults, never an error.
     const bad = await page.goto(`/effects/${world.effect.id}?frame=999&pass=9&zoom=-1`);
     expect(bad?.status()).toBe(200);
-    expect(await page.getByLabel("Frame", { exact: true }).inputValue()).toBe("0");
+    await expect.poll(() => page.getByLabel("Frame", { exact: true }).inputValue()).toBe("0");
     await context.close();
   });
 
@@ -134,11 +166,25 @@ describe("the effect bench, for an editor", () => {
     await expect.poll(() => page.getByRole("dialog", { name: "Leave the bench with unsaved edits?" }).isVisible()).toBe(true);
     await page.getByRole("button", { name: "Stay on the bench" }).click();
     expect(new URL(page.url()).pathname).toBe(`/effects/${world.effect.id}`);
-    page.on("dialog", (d) => void d.accept());
+    // Leaving the page itself (a reload) gets the browser's own warning: a beforeunload dialog, accepted here.
+    const dialogs: string[] = [];
+    page.on("dialog", (d) => {
+      dialogs.push(d.type());
+      void d.accept();
+    });
     await page.reload();
+    expect(dialogs).toEqual(["beforeunload"]);
     await expect.poll(() => page.getByTestId("restored-notice").count()).toBe(1);
-    expect(await page.getByLabel("Pivot x").inputValue()).toBe("9.5");
+    await expect.poll(() => page.getByLabel("Pivot x").inputValue()).toBe("9.5");
+    await expect.poll(() => page.getByTestId("save-state").textContent()).toBe("Unsaved edits on version 1");
     expect((await saved(world.effect.id)).version).toBe(1);
+    // Once the edits are dropped there is nothing to warn about: a reload goes without a dialog, and no draft comes back.
+    await page.getByRole("button", { name: "Undo my edits" }).click();
+    await expect.poll(() => page.getByTestId("save-state").textContent()).toBe("No unsaved edits");
+    await page.reload();
+    await expect.poll(() => page.getByLabel("Pivot x").inputValue()).toBe("10");
+    expect(await page.getByTestId("restored-notice").count()).toBe(0);
+    expect(dialogs).toEqual(["beforeunload"]);
     await context.close();
   });
 

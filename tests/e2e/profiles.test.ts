@@ -115,6 +115,20 @@ describe("target profiles", () => {
     expect(after.document).toMatchObject({ canvas: { width: 320, height: 224 }, pivot: { x: 160, y: 112 }, rounding: "floor" });
     expect(await getEffect(db, detached.id)).toEqual(detached);
     await screenshotsAtTwoWidths(page, "profile-edit", screenshot);
+    // The following effect's bench says what reached it and when; the detached one's says nothing.
+    await page.goto(`/effects/${following.id}`);
+    await expect
+      .poll(() => page.getByRole("region", { name: "Last change from the target profile" }).textContent())
+      .toMatch(
+        new RegExp(
+          `^Target profile ${profile.name} \\(version 2\\) changed by .+ on .+; this effect is at version ${after.version} since\\.` +
+            `.*Canvas256 × 224.*became320 × 224.*Roundingnearest-away.*becamefloor`,
+        ),
+      );
+    await page.goto(`/effects/${detached.id}`);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Sea tilt");
+    expect(await page.getByTestId("profile-change-notice").count()).toBe(0);
+    await page.goto(`/teams/${team.id}/profiles/${profile.id}`);
 
     // Someone else saves meanwhile: this page's save is refused with 409, and nothing is overwritten.
     const now = (await getTargetProfile(db, profile.id))!;

@@ -14,6 +14,7 @@ import { useBenchWorker, type FrameAnswer } from "../../bench/useBenchWorker.ts"
 import { PASS_LABELS, viewHref, ZOOM_MAX, ZOOM_MIN, type BenchView, type Pass } from "../../bench/view.ts";
 import type { loader } from "../../routes/effect.tsx";
 import type { SavedDiagnostics } from "../../bench/saved.server.ts";
+import { ProfileChangeNotice } from "../ProfileChangeNotice.tsx";
 import { buttonClass, Crumbs, Notice, PageTitle, Panel, RoleBadge, Timestamp } from "../ui.tsx";
 import { BenchSummary } from "./BenchSummary.tsx";
 import { ClashNotice, ConflictNotice } from "./ConflictNotice.tsx";
@@ -345,6 +346,7 @@ export function Bench({ data }: { data: Data }) {
             />
           ) : null}
           <ClashNotice clashes={bench.clashes} />
+          <ProfileChangeNotice change={data.profileChange} teamId={team.id} />
           {!bench.state && bench.errors ? (
             <p className="rounded-md border border-alert-400/40 bg-alert-900/40 px-3 py-2 text-sm text-alert-300" role="status">
               Some settings are not valid (marked in the settings); the preview shows the last valid ones.

@@ -34,16 +34,16 @@ export function PaletteHistogram({ source, frame, indexed }: { source: ColourCou
         <caption className="sr-only">Pixels of each colour, in the source and in this frame</caption>
         <thead className="text-ink-400">
           <tr>
-            <th scope="col" className="py-1 text-left font-medium">
+            <th scope="col" className="py-1 pr-3 text-left font-medium">
               Colour
             </th>
-            <th scope="col" className="py-1 text-right font-medium">
+            <th scope="col" className="py-1 pl-3 text-right font-medium">
               Source
             </th>
-            <th scope="col" className="py-1 text-right font-medium">
+            <th scope="col" className="py-1 pl-3 text-right font-medium">
               Frame
             </th>
-            <th scope="col" className="w-2/5 py-1">
+            <th scope="col" className="w-2/5 py-1 pl-3">
               <span className="sr-only">Bars</span>
             </th>
           </tr>
@@ -51,7 +51,7 @@ export function PaletteHistogram({ source, frame, indexed }: { source: ColourCou
         <tbody>
           {shown.map(({ colour, before, after }) => (
             <tr key={colour.key} className={before !== after && !colour.background ? "text-alert-300" : "text-ink-200"}>
-              <td className="py-0.5">
+              <td className="py-0.5 pr-3">
                 <span className="inline-flex items-center gap-1.5">
                   <span
                     className="inline-block h-3 w-3 rounded-sm border border-ink-500 bg-[repeating-conic-gradient(#3b4752_0_25%,#12181e_0_50%)] bg-[length:6px_6px]"
@@ -63,9 +63,9 @@ export function PaletteHistogram({ source, frame, indexed }: { source: ColourCou
                   {colour.background ? <span className="text-ink-400">background</span> : null}
                 </span>
               </td>
-              <td className="num py-0.5 text-right">{before}</td>
-              <td className="num py-0.5 text-right">{frame ? after : "…"}</td>
-              <td className="py-0.5 pl-2" aria-hidden="true">
+              <td className="num py-0.5 pl-3 text-right">{before}</td>
+              <td className="num py-0.5 pl-3 text-right">{frame ? after : "…"}</td>
+              <td className="py-0.5 pl-3" aria-hidden="true">
                 <div className="h-1.5 rounded-sm bg-ink-500" style={{ width: `${(before / most) * 100}%` }} />
                 <div className="mt-px h-1.5 rounded-sm bg-glass-400" style={{ width: `${(after / most) * 100}%` }} />
               </td>
