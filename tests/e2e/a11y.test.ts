@@ -1,22 +1,14 @@
 /** axe-core on every page of the app, in the browser: no serious or critical violation anywhere. */
 import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { benchWorld, waitForTable } from "./benchWorld.ts";
-import { launch, openPage, screenshot, signInAs } from "./support.ts";
+import { openPage, screenshot, signInAs, browserAndDb } from "./support.ts";
 
 const AXE_SOURCE = readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
-const db = createDb(process.env.DATABASE_URL!, { max: 2 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb();
+const { db } = e2e;
 
 /** The serious and critical violations axe finds on the page, as "rule: targets" lines. */
 async function violations(page: Page): Promise<string[]> {
@@ -43,14 +35,14 @@ describe("accessibility", () => {
       { canvas: { width: 24, height: 24 }, pivot: { x: 12, y: 12 }, angles: { sweep: { from: 0, to: 90, frames: 8 } } },
       { sprite: true },
     );
-    const signedOut = await openPage(browser);
+    const signedOut = await openPage(e2e.browser);
     await signedOut.page.goto("/sign-in");
     const problems: string[] = [];
     const check = async (page: Page, name: string) => problems.push(...(await violations(page)).map((v) => `${name}: ${v}`));
     await check(signedOut.page, "sign-in");
     await signedOut.context.close();
 
-    const editor = await signInAs(browser, world.editor);
+    const editor = await signInAs(e2e.browser, world.editor);
     const pages: [string, string][] = [
       ["home", "/"],
       ["team", `/teams/${world.team.id}`],
@@ -74,7 +66,7 @@ describe("accessibility", () => {
     }
     await editor.context.close();
 
-    const viewer = await signInAs(browser, world.viewer);
+    const viewer = await signInAs(e2e.browser, world.viewer);
     await viewer.page.goto(`/effects/${world.effect.id}`);
     await waitForTable(viewer.page, 8);
     await check(viewer.page, "bench for a viewer");

@@ -1,20 +1,11 @@
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import { describe, expect, it } from "vitest";
 import { renameEffect } from "../../app/models/effects.server.ts";
 import { makeEffect, makeProject, makeTargetProfile, makeTeam, makeUser, unique } from "../factories.ts";
-import { appUrl, launch, screenshot, signInAs } from "./support.ts";
+import { appUrl, screenshot, signInAs, browserAndDb } from "./support.ts";
 import { screenshotsAtTwoWidths } from "./teamSupport.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 2 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb();
+const { db } = e2e;
 
 describe("a project's activity", () => {
   it("lists who changed what, newest first, in pages, narrowed by kind; bad page numbers are a 400", async () => {
@@ -29,7 +20,7 @@ describe("a project's activity", () => {
     // team.created, member.added, project.created, effect.created, 30 renames, target_profile.created
     const total = 35;
 
-    const { context, page } = await signInAs(browser, viewer);
+    const { context, page } = await signInAs(e2e.browser, viewer);
     await page.goto(`/projects/${project.id}`);
     await page.getByRole("link", { name: `All activity (${total})` }).click();
     await page.waitForURL(`${appUrl()}/projects/${project.id}/activity`);
@@ -65,7 +56,7 @@ describe("a project's activity", () => {
     }
     await context.close();
 
-    const asOutsider = await signInAs(browser, outsider);
+    const asOutsider = await signInAs(e2e.browser, outsider);
     expect((await asOutsider.page.goto(`/projects/${project.id}/activity`))?.status()).toBe(404);
     await asOutsider.context.close();
   });

@@ -4,22 +4,14 @@
  */
 import { compileTables, renderImage, type IndexedImage } from "@skewsmith/core";
 import { eq } from "drizzle-orm";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { effects } from "../../app/db/schema.ts";
 import { benchWorld, waitForTable } from "./benchWorld.ts";
-import { launch, screenshot, signInAs } from "./support.ts";
+import { screenshot, signInAs, browserAndDb } from "./support.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 2 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb();
+const { db } = e2e;
 
 const saved = async (id: string) => (await db.select().from(effects).where(eq(effects.id, id)))[0];
 const tableRows = (page: Page) =>
@@ -32,7 +24,7 @@ describe("key pixels", () => {
   it("are marked by clicking the source, unmarked by a second click, followed on every frame in the table, and saved", async () => {
     const effectDoc = { canvas: { width: 20, height: 18 }, pivot: { x: 10, y: 9 }, angles: { sweep: { from: 0, to: 360, frames: 24 } } };
     const world = await benchWorld(db, effectDoc, { sprite: true });
-    const { context, page } = await signInAs(browser, world.editor, { viewport: { width: 1280, height: 800 } });
+    const { context, page } = await signInAs(e2e.browser, world.editor, { viewport: { width: 1280, height: 800 } });
     await page.goto(`/effects/${world.effect.id}?frame=5&pass=3&zoom=8`);
     await waitForTable(page, 24);
     await expect.poll(() => page.getByTestId("key-pixel-count").textContent()).toMatch(/^None marked/);
@@ -119,7 +111,7 @@ describe("reduced motion", () => {
   it("holds playback to 6 fps or slower while the system asks for it, and says so beside the caution", async () => {
     const effectDoc = { canvas: { width: 20, height: 18 }, pivot: { x: 10, y: 9 }, angles: { sweep: { from: 0, to: 360, frames: 600 } } };
     const world = await benchWorld(db, effectDoc, { sprite: true });
-    const { context, page } = await signInAs(browser, world.editor);
+    const { context, page } = await signInAs(e2e.browser, world.editor);
     await page.emulateMedia({ reducedMotion: "reduce" });
     await page.goto(`/effects/${world.effect.id}`);
     const caution = page.getByTestId("photosensitivity-caution");
@@ -158,7 +150,7 @@ describe("a long track's export", () => {
   it("makes the files of a 4096-frame effect in the worker with a progress bar while the page keeps drawing", async () => {
     const effectDoc = { canvas: { width: 96, height: 64 }, pivot: { x: 48, y: 32 }, angles: { sweep: { from: 0, to: 360, frames: 4096 } } };
     const world = await benchWorld(db, effectDoc);
-    const { context, page } = await signInAs(browser, world.editor);
+    const { context, page } = await signInAs(e2e.browser, world.editor);
     await page.goto(`/effects/${world.effect.id}`);
     // 4096 × (96 + 64) shifts is past what the panel makes by itself: it offers to make them.
     const make = page.getByRole("button", { name: "Make the files" });

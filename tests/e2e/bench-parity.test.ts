@@ -4,23 +4,14 @@
  */
 import { compileTables, decodePng, opaqueMask, placeImage, type IndexedImage } from "@skewsmith/core";
 import { readFileSync } from "node:fs";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import { describe, expect, it } from "vitest";
 import { spritePlacement } from "../../app/bench/placement.ts";
 import { workdir } from "../../packages/core/test/helpers/cli.ts";
 import { benchWorld, canvasPixels, placedPng, waitForTable } from "./benchWorld.ts";
-import { launch, signInAs } from "./support.ts";
+import { signInAs, browserAndDb } from "./support.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 2 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb();
+const { db } = e2e;
 
 const CASES = [
   {
@@ -58,7 +49,7 @@ describe("browser and command line agree", () => {
   for (const c of CASES)
     it(`on ${c.name}: the tables document and every pass of a frame`, async () => {
       const world = await benchWorld(db, c.document, { sprite: true });
-      const { context, page } = await signInAs(browser, world.editor);
+      const { context, page } = await signInAs(e2e.browser, world.editor);
       const dir = workdir();
       try {
         const effectFile = dir.write("effect.json", JSON.stringify(world.doc));

@@ -1,22 +1,14 @@
 import { decodePng, type IndexedImage } from "@skewsmith/core";
 import { eq } from "drizzle-orm";
 import { readFileSync } from "node:fs";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { effects } from "../../app/db/schema.ts";
 import { benchWorld, bufferSize, canvasPixels, waitForTable } from "./benchWorld.ts";
-import { launch, screenshot, signInAs, sameOrigin } from "./support.ts";
+import { screenshot, signInAs, sameOrigin, browserAndDb } from "./support.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 2 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb();
+const { db } = e2e;
 
 const ROSE_EFFECT = {
   canvas: { width: 20, height: 18 },
@@ -39,7 +31,7 @@ async function typeAngles(page: Page, text: string) {
 describe("the effect bench, for an editor", () => {
   it("places a sprite, changes the angle track, steps frames and passes, sees the table change, and saves", async () => {
     const world = await benchWorld(db, ROSE_EFFECT);
-    const { context, page } = await signInAs(browser, world.editor, { viewport: { width: 1280, height: 800 } });
+    const { context, page } = await signInAs(e2e.browser, world.editor, { viewport: { width: 1280, height: 800 } });
     await page.goto(`/effects/${world.effect.id}`);
     await waitForTable(page, 24);
     // Without a sprite the table measures every canvas pixel, and the preview starts paused on frame 0, pass 3.
@@ -110,7 +102,7 @@ describe("the effect bench, for an editor", () => {
 
   it("opens a deep link at its frame, pass and zoom, and downloads that frame as the frame route draws it", async () => {
     const world = await benchWorld(db, ROSE_EFFECT, { sprite: true });
-    const { context, page } = await signInAs(browser, world.editor);
+    const { context, page } = await signInAs(e2e.browser, world.editor);
     await page.goto(`/effects/${world.effect.id}?frame=7&pass=2&zoom=3`);
     await waitForTable(page, 24);
     await expect.poll(() => page.getByLabel("Frame", { exact: true }).inputValue()).toBe("7");
@@ -156,7 +148,7 @@ describe("the effect bench, for an editor", () => {
 
   it("keeps unsaved edits across a reload and says so", async () => {
     const world = await benchWorld(db, ROSE_EFFECT, { sprite: true });
-    const { context, page } = await signInAs(browser, world.editor);
+    const { context, page } = await signInAs(e2e.browser, world.editor);
     await page.goto(`/effects/${world.effect.id}`);
     await waitForTable(page, 24);
     await page.getByLabel("Pivot x").fill("9.5");
@@ -190,8 +182,8 @@ describe("the effect bench, for an editor", () => {
 
   it("refuses a stale save, shows what the other person changed, keeps my edits, and merges on request", async () => {
     const world = await benchWorld(db, ROSE_EFFECT, { sprite: true });
-    const mine = await signInAs(browser, world.editor);
-    const theirs = await signInAs(browser, world.other);
+    const mine = await signInAs(e2e.browser, world.editor);
+    const theirs = await signInAs(e2e.browser, world.other);
     for (const p of [mine.page, theirs.page]) {
       await p.goto(`/effects/${world.effect.id}`);
       await waitForTable(p, 24);
@@ -223,7 +215,7 @@ describe("the effect bench, for an editor", () => {
 describe("the effect bench, for a viewer", () => {
   it("shows everything read-only and refuses a save", async () => {
     const world = await benchWorld(db, ROSE_EFFECT, { sprite: true });
-    const { context, page } = await signInAs(browser, world.viewer, { viewport: { width: 1280, height: 800 } });
+    const { context, page } = await signInAs(e2e.browser, world.viewer, { viewport: { width: 1280, height: 800 } });
     await page.goto(`/effects/${world.effect.id}`);
     await waitForTable(page, 24);
     expect(await page.getByTestId("read-only-notice").count()).toBe(1);

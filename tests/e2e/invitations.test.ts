@@ -1,23 +1,14 @@
 import { eq } from "drizzle-orm";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import { describe, expect, it } from "vitest";
 import { invitations } from "../../app/db/schema.ts";
 import { addMember, getRole } from "../../app/models/teams.server.ts";
 import { REFUSED_DOMAIN } from "../../scripts/fakes/mail.ts";
 import { makeTeam, makeUser, unique } from "../factories.ts";
-import { appUrl, launch, openPage, registerAccount, screenshot, signInAs, signInFromHere, sameOrigin } from "./support.ts";
+import { appUrl, openPage, registerAccount, screenshot, signInAs, signInFromHere, sameOrigin, browserAndDb } from "./support.ts";
 import { invitationLink, screenshotsAtTwoWidths, waitForMail } from "./teamSupport.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 2 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb();
+const { db } = e2e;
 
 const address = (what: string) => `${what}-${unique()}@example.test`;
 
@@ -27,7 +18,7 @@ describe("an invitation by e-mail", () => {
     const team = await makeTeam(db, { owner, name: `Mooring Crew ${unique()}` });
     const invited = address("invitee");
 
-    const { context, page } = await signInAs(browser, owner);
+    const { context, page } = await signInAs(e2e.browser, owner);
     await page.goto(`/teams/${team.id}`);
     await page.getByRole("link", { name: "Invite and manage members" }).click();
     await page.waitForURL(`${appUrl()}/teams/${team.id}/members`);
@@ -48,7 +39,7 @@ describe("an invitation by e-mail", () => {
     // A second person, with another address, not signed in: the link goes to sign-in and back to the invitation.
     const joiner = await makeUser(db, { name: `Pell Joiner ${unique()}`, email: address("joiner") });
     await registerAccount(joiner);
-    const second = await openPage(browser);
+    const second = await openPage(e2e.browser);
     await second.page.goto(link);
     await signInFromHere(second.page, joiner.login);
     await second.page.waitForURL(link);
@@ -82,7 +73,7 @@ describe("an invitation by e-mail", () => {
     const owner = await makeUser(db);
     const team = await makeTeam(db, { owner, name: `Slipway ${unique()}` });
     const invited = address("resent");
-    const { context, page } = await signInAs(browser, owner);
+    const { context, page } = await signInAs(e2e.browser, owner);
     await page.goto(`/teams/${team.id}/members`);
     await page.getByLabel("E-mail address").fill(invited);
     await page.getByRole("button", { name: "Send invitation" }).click();
@@ -93,7 +84,7 @@ describe("an invitation by e-mail", () => {
     let secondLink = firstLink;
     await expect.poll(async () => (secondLink = invitationLink(await waitForMail(invited)))).not.toBe(firstLink);
 
-    const visitor = await openPage(browser);
+    const visitor = await openPage(e2e.browser);
     const old = await visitor.page.goto(firstLink);
     expect(old?.status()).toBe(404);
     await expect.poll(() => visitor.page.getByRole("heading", { level: 1 }).textContent()).toBe("This invitation link is not valid");
@@ -133,7 +124,7 @@ describe("an invitation by e-mail", () => {
     const owner = await makeUser(db);
     const team = await makeTeam(db, { owner, name: `Breakwater ${unique()}` });
     const refused = `nobody-${unique()}@${REFUSED_DOMAIN}`;
-    const { context, page } = await signInAs(browser, owner);
+    const { context, page } = await signInAs(e2e.browser, owner);
     await page.goto(`/teams/${team.id}/members`);
     await page.getByLabel("E-mail address").fill(refused);
     await page.getByRole("button", { name: "Send invitation" }).click();
@@ -172,7 +163,7 @@ describe("owners managing members", () => {
         { user: second, role: "viewer" },
       ],
     });
-    const { context, page } = await signInAs(browser, owner);
+    const { context, page } = await signInAs(e2e.browser, owner);
     await page.goto(`/teams/${team.id}/members`);
     const row = page.getByTestId(`member-${first.login}`);
     await row.getByRole("combobox").selectOption("editor");
@@ -205,7 +196,7 @@ describe("owners managing members", () => {
     expect(removalMail.text).toContain(`${owner.name} removed you from the team ${team.name} on Skewsmith, where you were an editor.`);
 
     // Without JavaScript the Remove link opens a page that asks the same question.
-    const noScript = await browser.newContext({
+    const noScript = await e2e.browser.newContext({
       baseURL: appUrl(),
       javaScriptEnabled: false,
       viewport: { width: 1280, height: 900 },
@@ -243,7 +234,7 @@ describe("owners managing members", () => {
     const editor = await makeUser(db);
     const outsider = await makeUser(db);
     const team = await makeTeam(db, { owner, members: [{ user: editor, role: "editor" }] });
-    const asEditor = await signInAs(browser, editor);
+    const asEditor = await signInAs(e2e.browser, editor);
     await asEditor.page.goto(`/teams/${team.id}/members`);
     await asEditor.page.getByTestId("members-table").waitFor();
     for (const name of ["Send invitation", "Change"]) expect(await asEditor.page.getByRole("button", { name }).count(), name).toBe(0);
@@ -255,7 +246,7 @@ describe("owners managing members", () => {
     expect(await db.select().from(invitations).where(eq(invitations.teamId, team.id))).toEqual([]);
     await asEditor.context.close();
 
-    const asOutsider = await signInAs(browser, outsider);
+    const asOutsider = await signInAs(e2e.browser, outsider);
     const page = await asOutsider.page.goto(`/teams/${team.id}/members`);
     expect(page?.status()).toBe(404);
     const remove = await asOutsider.page.goto(`/teams/${team.id}/members/${editor.id}/remove`);

@@ -1,23 +1,14 @@
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import { describe, expect, it } from "vitest";
 import type { TargetProfile } from "../../app/db/schema.ts";
 import { getEffect } from "../../app/models/effects.server.ts";
 import { detachEffect, getTargetProfile, listTargetProfiles, updateTargetProfile } from "../../app/models/targetProfiles.server.ts";
 import { STARTER_PROFILES } from "../../app/profiles/starters.ts";
 import { makeEffect, makeProject, makeTargetProfile, makeTeam, makeUser, unique } from "../factories.ts";
-import { appUrl, launch, screenshot, signInAs, sameOrigin } from "./support.ts";
+import { appUrl, screenshot, signInAs, sameOrigin, browserAndDb } from "./support.ts";
 import { screenshotsAtTwoWidths } from "./teamSupport.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 2 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb();
+const { db } = e2e;
 
 async function setup() {
   const owner = await makeUser(db);
@@ -56,7 +47,7 @@ function settingsOf(profile: TargetProfile) {
 describe("target profiles", () => {
   it("an editor adds starting profiles, creates one, edits one (following effects change, detached ones do not), duplicates and deletes", async () => {
     const { editor, team, profile, following, detached } = await setup();
-    const { context, page } = await signInAs(browser, editor);
+    const { context, page } = await signInAs(e2e.browser, editor);
 
     await page.goto(`/teams/${team.id}`);
     await page.getByRole("link", { name: "Manage target profiles" }).click();
@@ -188,7 +179,7 @@ describe("target profiles", () => {
   it("viewers use profiles but change none (403); outsiders get 404", async () => {
     const { viewer, team, profile } = await setup();
     const outsider = await makeUser(db);
-    const asViewer = await signInAs(browser, viewer);
+    const asViewer = await signInAs(e2e.browser, viewer);
     const { page } = asViewer;
     await page.goto(`/teams/${team.id}/profiles/${profile.id}`);
     await expect.poll(() => page.getByText("Viewers use target profiles; editors and owners change them.").count()).toBe(1);
@@ -220,7 +211,7 @@ describe("target profiles", () => {
     expect(await getTargetProfile(db, profile.id)).toEqual(profile);
     await asViewer.context.close();
 
-    const asOutsider = await signInAs(browser, outsider);
+    const asOutsider = await signInAs(e2e.browser, outsider);
     for (const path of [
       `/teams/${team.id}/profiles`,
       `/teams/${team.id}/profiles/${profile.id}`,
@@ -232,7 +223,7 @@ describe("target profiles", () => {
 
   it("refuses unknown starting profiles, prototype names included, with a 400 that names the way forward", async () => {
     const { editor, team } = await setup();
-    const { context, page } = await signInAs(browser, editor);
+    const { context, page } = await signInAs(e2e.browser, editor);
     for (const key of ["__proto__", "constructor", "toString", "nope"]) {
       const response = await page.request.get(`/teams/${team.id}/profiles/new?starter=${encodeURIComponent(key)}`);
       expect(response.status(), key).toBe(400);

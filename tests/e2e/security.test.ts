@@ -2,21 +2,13 @@
  * The page policy in a real browser: on every page, no script, style, font, image or form the app uses is blocked
  * by its Content-Security-Policy, and the app's scripts run (they hydrate and handle a form without a reload).
  */
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { makeEffect, makeProject, makeSprite, makeTeam, makeUser } from "../factories.ts";
-import { launch, screenshot, signInAs } from "./support.ts";
+import { screenshot, signInAs, browserAndDb } from "./support.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 1 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb(1);
+const { db } = e2e;
 
 /** Collects every policy violation the page reports (an init script runs before the page's own). */
 async function watchViolations(page: Page): Promise<() => Promise<string[]>> {
@@ -40,7 +32,7 @@ describe("the page policy in the browser", () => {
     const sprite = await makeSprite(db, { project, actor: owner });
     const effect = await makeEffect(db, { project, actor: owner, name: "Policy beam", sprite });
     for (const width of [1280, 1024]) {
-      const { context, page } = await signInAs(browser, owner, { viewport: { width, height: 900 } });
+      const { context, page } = await signInAs(e2e.browser, owner, { viewport: { width, height: 900 } });
       const violations = await watchViolations(page);
       const pages = [
         "/",
@@ -98,7 +90,7 @@ describe("the page policy in the browser", () => {
     const team = await makeTeam(db, { owner });
     const project = await makeProject(db, { team, actor: owner });
     await makeEffect(db, { project, actor: owner, name: "Shared beam" });
-    const { context, page } = await signInAs(browser, owner);
+    const { context, page } = await signInAs(e2e.browser, owner);
     await page.goto(`/projects/${project.id}`);
     // Someone else renames it from another tab after this page was loaded.
     const other = await context.newPage();

@@ -3,7 +3,8 @@ import { mkdirSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
-import { expect, inject } from "vitest";
+import { afterAll, beforeAll, expect, inject } from "vitest";
+import { createDb, type Db } from "../../app/db/client.server.ts";
 import type { User } from "../../app/db/schema.ts";
 import { DEMO_PEOPLE } from "../../app/demo/people.ts";
 
@@ -23,6 +24,29 @@ export function launch(): Promise<Browser> {
 }
 
 /** A new browser context (its own cookies) with a page on the app. */
+/**
+ * Chromium and a connection to the test database for one test file: opened before its first test, both closed after
+ * its last. Read `browser` inside the tests (it is set once the file's set-up has run).
+ */
+export function browserAndDb(poolSize = 2): { readonly db: Db; readonly browser: Browser } {
+  const db = createDb(process.env.DATABASE_URL!, { max: poolSize });
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await db.$client.end();
+  });
+  return {
+    db,
+    get browser() {
+      if (!browser) throw new Error("the browser is opened in beforeAll: read it inside a test");
+      return browser;
+    },
+  };
+}
+
 export async function openPage(
   browser: Browser,
   viewport: { width: number; height: number } = { width: 1280, height: 900 },

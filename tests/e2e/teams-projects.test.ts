@@ -1,18 +1,10 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb } from "../../app/db/client.server.ts";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { makeUser } from "../factories.ts";
-import { launch, postForm, screenshot, signInAs } from "./support.ts";
+import { postForm, screenshot, signInAs, browserAndDb } from "./support.ts";
 
-const db = createDb(process.env.DATABASE_URL!, { max: 1 });
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await db.$client.end();
-});
+const e2e = browserAndDb(1);
+const { db } = e2e;
 
 const tag = Date.now().toString(36);
 const row = (page: Page, name: string) => page.getByTestId(`effect-row-${name}`);
@@ -21,7 +13,7 @@ describe("a person with no team", () => {
   it("creates a team and a project, and works with effects in it", async () => {
     // A person of the test's own, in no team yet, so the test can run again on the same database.
     const newcomer = await makeUser(db);
-    const { context, page } = await signInAs(browser, newcomer);
+    const { context, page } = await signInAs(e2e.browser, newcomer);
 
     // Home, team-less: the empty state says what to do next.
     await expect.poll(() => page.getByText("You are not in a team yet.").count()).toBe(1);
