@@ -3,6 +3,7 @@
  * Messages are written for the person filling the form.
  */
 import { z } from "zod";
+import { formShapeErrors, notText, sentTwice } from "./formShape.ts";
 import { ROLES } from "./roles.ts";
 import { TOKEN_SCOPES } from "./tokens.ts";
 
@@ -162,6 +163,7 @@ export const revokeTokenForm = z.object({ tokenId: id("token") });
 
 /** Field messages of a failed parse, one string per field (the first problem found). */
 export type FieldErrors = Record<string, string>;
+export { formShapeErrors };
 
 export function fieldErrors(error: z.ZodError): FieldErrors {
   const out: FieldErrors = {};
@@ -195,20 +197,6 @@ function takesList(field: z.ZodType): boolean {
 }
 
 /**
- * What is wrong with the shape of a form whose fields are read one by one (not through parseForm): one of the
- * single-valued `names` sent twice, or a file where text belongs. Empty when the shape is right.
- */
-export function formShapeErrors(form: FormData, names: Iterable<string>): FieldErrors {
-  const problems: FieldErrors = {};
-  for (const name of names) {
-    const all = form.getAll(name);
-    if (all.some((v) => typeof v !== "string")) problems[name] = `“${name}” must be text, not a file.`;
-    else if (all.length > 1) problems[name] = `The form sent “${name}” ${all.length} times; it takes one value.`;
-  }
-  return problems;
-}
-
-/**
  * Parses a submitted form with a schema: the data, or the field messages to show. Only the schema's own fields
  * are read; a file where text belongs, or a field sent twice that takes one value, is a field message too (never
  * silently the first or the last one).
@@ -224,9 +212,9 @@ export function parseForm<S extends z.ZodType>(
   for (const key of new Set(form.keys())) {
     if (shape && !Object.hasOwn(shape, key)) continue;
     const all = form.getAll(key);
-    if (all.some((v) => typeof v !== "string")) problems[key] = `“${key}” must be text, not a file.`;
+    if (all.some((v) => typeof v !== "string")) problems[key] = notText(key);
     else if (shape && takesList(shape[key])) values[key] = all;
-    else if (all.length > 1) problems[key] = `The form sent “${key}” ${all.length} times; it takes one value.`;
+    else if (all.length > 1) problems[key] = sentTwice(key, all.length);
     else values[key] = all[0];
   }
   const result = schema.safeParse(values);

@@ -3,6 +3,7 @@
  * into the input that app/effects/settings.ts (targetProfileInput) checks. No runtime imports of core or zod,
  * so the pages that show the form stay light in the browser.
  */
+import { formShapeErrors, notText } from "../formShape.ts";
 
 /** What each export output makes, in the words of the form (core's output names are the values). */
 export const OUTPUT_LABELS: Readonly<Record<string, string>> = {
@@ -71,13 +72,8 @@ const SINGLE = [...FIELDS, "sign", "registerBits", "element", "split", "half", "
  * where text belongs (the same rule as parseForm in app/forms.ts). Empty when the shape is right.
  */
 export function profileFormShapeErrors(form: FormData): Record<string, string> {
-  const errors: Record<string, string> = {};
-  for (const name of SINGLE) {
-    const all = form.getAll(name);
-    if (all.some((v) => typeof v !== "string")) errors[name] = `“${name}” must be text, not a file.`;
-    else if (all.length > 1) errors[name] = `The form sent “${name}” ${all.length} times; it takes one value.`;
-  }
-  if (form.getAll("dialects").some((v) => typeof v !== "string")) errors.dialects = "“dialects” must be text, not a file.";
+  const errors = formShapeErrors(form, SINGLE);
+  if (form.getAll("dialects").some((v) => typeof v !== "string")) errors.dialects = notText("dialects");
   return errors;
 }
 
