@@ -5,6 +5,7 @@
  * `new Worker(new URL("./bench.worker.ts", import.meta.url), { type: "module" })`.
  */
 import { decodePng, exportBudget, exportBundle, type Image } from "@skewsmith/core";
+import { frameDisplay } from "./display.ts";
 import { FramePainter, TrackDiagnosis, fitAdvice, outline, prepareSource } from "./engine.ts";
 import type { FromWorker, ToWorker } from "./protocol.ts";
 
@@ -20,6 +21,15 @@ let markReady: () => void = () => {};
 let ready = new Promise<void>((resolve) => (markReady = resolve));
 let current: { diagnosis: TrackDiagnosis; painter: FramePainter; generation: number; load: Extract<ToWorker, { type: "load" }> } | null =
   null;
+
+/** Buffers handed back by the page, reused for frames' pixels (a few frames' worth at most). */
+const spares: ArrayBuffer[] = [];
+const SPARES = 8;
+
+function spare(bytes: number): ArrayBuffer | undefined {
+  const i = spares.findIndex((b) => b.byteLength === bytes);
+  return i < 0 ? undefined : spares.splice(i, 1)[0];
+}
 
 function post(message: FromWorker, transfer: Transferable[] = []) {
   self.postMessage(message, transfer);
@@ -101,12 +111,15 @@ async function frame(message: Extract<ToWorker, { type: "frame" }>) {
   if (!current) return;
   try {
     const index = Math.min(message.index, current.diagnosis.total - 1);
-    const picture = current.painter.paint(index, message.pass, message.wants);
+    const { width, height } = current.painter.effect.canvas;
+    const picture = current.painter.paint(index, message.pass, message.wants, spare(width * height * 4));
+    const display = frameDisplay(picture, width, height, message.zoom, message.shade, spare(width * height * message.zoom ** 2 * 4));
     const transfer: Transferable[] = [picture.rgba.buffer];
+    if (display) transfer.push(display.pixels.buffer);
     for (const part of [picture.wrapped, picture.lost, picture.error, picture.keys]) if (part) transfer.push(part.buffer);
     const degrees = current.diagnosis.tables.frames[index].degrees;
     post(
-      { type: "frame", generation: current.generation, request: message.request, index, pass: message.pass, degrees, picture },
+      { type: "frame", generation: current.generation, request: message.request, index, pass: message.pass, degrees, picture, display },
       transfer,
     );
   } catch (error) {
@@ -145,6 +158,10 @@ self.onmessage = (event: MessageEvent<ToWorker>) => {
       break;
     case "frame":
       void frame(message);
+      break;
+    case "recycle":
+      for (const b of message.buffers) if (b.byteLength > 0) spares.push(b);
+      spares.splice(0, Math.max(0, spares.length - SPARES));
       break;
     case "budget":
       budget(message);

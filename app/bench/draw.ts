@@ -2,7 +2,10 @@
  * Drawing one frame on the preview canvas: the frame's pixels at an integer zoom (no smoothing), then the overlays the
  * person turned on. Pure canvas 2D code, shared by the preview and the browser benchmark (bench/).
  */
+import { errorShading, type FrameDisplay } from "./display.ts";
 import type { FramePicture } from "./engine.ts";
+
+export { ERROR_BANDS } from "./display.ts";
 
 export interface Overlays {
   grid: boolean;
@@ -15,15 +18,6 @@ export interface Overlays {
 }
 
 export const NO_OVERLAYS: Overlays = { grid: false, ideal: false, error: false, marks: false, pivot: false, edge: false, keys: false };
-
-/** Error shading: the upper bound of each band in pixels and its colour (a diverging blue-yellow-red scale; ColorBrewer RdYlBu, from memory). */
-export const ERROR_BANDS: readonly { below: number; label: string; rgb: [number, number, number] }[] = [
-  { below: 0.25, label: "under 0.25 px", rgb: [44, 123, 182] },
-  { below: 0.5, label: "0.25 to 0.5 px", rgb: [171, 217, 233] },
-  { below: 0.75, label: "0.5 to 0.75 px", rgb: [255, 255, 191] },
-  { below: 1, label: "0.75 to 1 px", rgb: [253, 174, 97] },
-  { below: Infinity, label: "1 px or more", rgb: [215, 25, 28] },
-];
 
 /** Colours of the marks, chosen to stand apart from the error bands and from the app's own colours. */
 export const MARK_COLOURS = {
@@ -48,6 +42,8 @@ export interface DrawInput {
   /** The counted pixels' outline, [x0, y0, x1, y1, …] in canvas pixels (see engine's outline). */
   outline: Float32Array | null;
   overlays: Overlays;
+  /** The frame's pixels already zoomed (and shaded) by the worker; drawn with one putImageData when it matches. */
+  display?: FrameDisplay | null;
   /** Where the pointer would place something: a pivot spot (half-pixel steps) or a pixel, in canvas pixels. */
   hover?: { kind: "pivot" | "pixel"; x: number; y: number } | null;
 }
@@ -71,39 +67,21 @@ export class PixelStage {
   }
 }
 
-/** The frame's pixels with counted pixels recoloured by their error band; other pixels dimmed. */
-export function errorShading(picture: FramePicture): Uint8ClampedArray<ArrayBuffer> {
-  const { rgba, error } = picture;
-  const out = new Uint8ClampedArray(rgba.length);
-  for (let i = 0, p = 0; p < rgba.length; i++, p += 4) {
-    const e = error ? error[i] : Number.NaN;
-    if (Number.isNaN(e)) {
-      out[p] = rgba[p] * 0.3;
-      out[p + 1] = rgba[p + 1] * 0.3;
-      out[p + 2] = rgba[p + 2] * 0.3;
-      out[p + 3] = rgba[p + 3];
-      continue;
-    }
-    let band = 0;
-    while (e >= ERROR_BANDS[band].below) band++;
-    const [r, g, b] = ERROR_BANDS[band].rgb;
-    out[p] = r;
-    out[p + 1] = g;
-    out[p + 2] = b;
-    out[p + 3] = 255;
-  }
-  return out;
-}
-
 /** Draws a frame and its overlays on `ctx`, whose canvas is exactly (width × zoom) × (height × zoom) pixels. */
 export function drawFrame(ctx: CanvasRenderingContext2D, stage: PixelStage, input: DrawInput): void {
   const { picture, width: W, height: H, zoom: z, overlays } = input;
   const cw = W * z;
   const ch = H * z;
-  ctx.clearRect(0, 0, cw, ch);
-  ctx.imageSmoothingEnabled = false;
-  const shaded = overlays.error && picture.error ? errorShading(picture) : picture.rgba;
-  ctx.drawImage(stage.put(shaded, W, H), 0, 0, cw, ch);
+  const shade = overlays.error && picture.error !== null;
+  const display = input.display;
+  if (display && display.zoom === z && display.shaded === shade && display.pixels.length === cw * ch * 4) {
+    // The whole canvas at once, transparent background included: nothing to clear or scale.
+    ctx.putImageData(new ImageData(display.pixels, cw, ch), 0, 0);
+  } else {
+    ctx.clearRect(0, 0, cw, ch);
+    ctx.imageSmoothingEnabled = false;
+    ctx.drawImage(stage.put(shade ? errorShading(picture) : picture.rgba, W, H), 0, 0, cw, ch);
+  }
 
   if (overlays.grid && z >= 4) {
     ctx.strokeStyle = MARK_COLOURS.grid;

@@ -365,13 +365,15 @@ export class FramePainter {
     return this.identity;
   }
 
-  /** Frame `index` up to `pass` (0 is the placed source), with what `wants` asks for. */
-  paint(index: number, pass: Pass, wants: FrameWants): FramePicture {
+  /** Frame `index` up to `pass` (0 is the placed source), with what `wants` asks for; its RGBA in `into` when that fits. */
+  paint(index: number, pass: Pass, wants: FrameWants, into?: ArrayBuffer): FramePicture {
     const { source, effect } = this;
     const frame = this.tables.frames[index];
     if (!frame) throw new RangeError(`frame: ${index} is not allowed; allowed 0 to ${this.tables.frames.length - 1}`);
     const plane = pass === 0 ? source.plane : this.renderers.for(source.plane).render(source.plane, frame, effect, pass);
-    const rgba = new Uint8ClampedArray(source.width * source.height * 4);
+    const bytes = source.width * source.height * 4;
+    // Every pixel is written below, so a handed-back buffer needs no clearing.
+    const rgba = into && into.byteLength === bytes ? new Uint8ClampedArray(into) : new Uint8ClampedArray(bytes);
     const out = new Uint32Array(rgba.buffer);
     if (source.colours) for (let i = 0; i < plane.length; i++) out[i] = source.colours[plane[i]];
     else out.set(plane);

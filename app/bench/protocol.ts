@@ -1,5 +1,6 @@
 /** Messages between the bench page and its Web Worker (bench.worker.ts). Kept small: load, frame, budget, export. */
 import type { BudgetReport, CanvasFit, Effect, ElementType, ExportOptionsInput } from "@skewsmith/core";
+import type { FrameDisplay } from "./display.ts";
 import type { KeyPixel } from "./draft.ts";
 import type { ColourCount, FramePicture, FrameRow, FrameWants } from "./engine.ts";
 import type { Pass } from "./view.ts";
@@ -18,7 +19,18 @@ export type ToWorker =
       /** Round the canvas-fit advice up to this many pixels. */
       align: number;
     }
-  | { type: "frame"; request: number; index: number; pass: Pass; wants: FrameWants }
+  | {
+      type: "frame";
+      request: number;
+      index: number;
+      pass: Pass;
+      wants: FrameWants;
+      /** The preview's zoom, and whether to shade by error: the worker prepares the zoomed pixels (see display.ts). */
+      zoom: number;
+      shade: boolean;
+    }
+  /** Pixel buffers of frames the page no longer holds, handed back for the next frames (see display.ts). */
+  | { type: "recycle"; buffers: ArrayBuffer[] }
   | { type: "budget"; job: number; document: Effect; options: ExportOptionsInput }
   | { type: "export"; job: number; document: Effect; options: ExportOptionsInput };
 
@@ -49,7 +61,16 @@ export type FromWorker =
   | { type: "rows"; generation: number; rows: FrameRow[]; done: number; total: number }
   | { type: "diagnosed"; generation: number; ms: number }
   | { type: "fit"; generation: number; fit: CanvasFit }
-  | { type: "frame"; generation: number; request: number; index: number; pass: Pass; degrees: number; picture: FramePicture }
+  | {
+      type: "frame";
+      generation: number;
+      request: number;
+      index: number;
+      pass: Pass;
+      degrees: number;
+      picture: FramePicture;
+      display: FrameDisplay | null;
+    }
   | { type: "budget"; job: number; report: BudgetReport | null; error: string | null }
   | { type: "export-progress"; job: number; done: number; total: number; step: string }
   | { type: "export"; job: number; files: ExportFile[] | null; error: string | null }

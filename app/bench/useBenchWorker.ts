@@ -2,6 +2,8 @@
 import type { BudgetReport, CanvasFit, Effect, ExportOptionsInput } from "@skewsmith/core";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import type { FramePicture, FrameRow, FrameWants } from "./engine.ts";
+import type { FrameDisplay } from "./display.ts";
+import { recyclable } from "./frameFeed.ts";
 import type { ExportFile, FromWorker, Loaded, ToWorker } from "./protocol.ts";
 import type { Pass } from "./view.ts";
 
@@ -21,7 +23,23 @@ export interface WorkerState {
 /** What a load sends besides its generation: the effect, its sprite and placement, key pixels, the fit's rounding. */
 export type LoadInput = Omit<Extract<ToWorker, { type: "load" }>, "type" | "generation">;
 
-export type FrameAnswer = { index: number; pass: Pass; degrees: number; picture: FramePicture; generation: number };
+export type FrameAnswer = {
+  index: number;
+  pass: Pass;
+  degrees: number;
+  picture: FramePicture;
+  display: FrameDisplay | null;
+  generation: number;
+};
+
+/** One frame as the preview wants it. */
+export interface FrameAsk {
+  index: number;
+  pass: Pass;
+  wants: FrameWants;
+  zoom: number;
+  shade: boolean;
+}
 
 const EMPTY: WorkerState = { generation: 0, loaded: null, rows: [], done: 0, total: 0, diagnosedMs: null, fit: null, error: null };
 
@@ -84,7 +102,11 @@ export function useBenchWorker() {
           setState((s) => ({ ...s, error: m.message }));
           break;
         case "frame":
-          settle(m.request, { index: m.index, pass: m.pass, degrees: m.degrees, picture: m.picture, generation: m.generation }, null);
+          settle(
+            m.request,
+            { index: m.index, pass: m.pass, degrees: m.degrees, picture: m.picture, display: m.display, generation: m.generation },
+            null,
+          );
           break;
         case "budget":
           settle(m.job, m.report, m.error);
@@ -129,8 +151,12 @@ export function useBenchWorker() {
         queued.current = queued.current.filter((m) => m.type !== "load");
         send({ type: "load", generation: generation.current, ...input });
       },
-      frame: (index: number, pass: Pass, wants: FrameWants) =>
-        ask<FrameAnswer>((request) => ({ type: "frame", request, index, pass, wants })),
+      frame: (want: FrameAsk) => ask<FrameAnswer>((request) => ({ type: "frame", request, ...want })),
+      /** Hands a frame's pixel buffers back to the worker once the page no longer holds the frame. */
+      recycle(answer: FrameAnswer) {
+        const buffers = recyclable(answer);
+        if (buffers.length > 0 && worker.current) worker.current.postMessage({ type: "recycle", buffers } satisfies ToWorker, buffers);
+      },
       budget: (document: Effect, options: ExportOptionsInput) => ask<BudgetReport>((job) => ({ type: "budget", job, document, options })),
       exportFiles: (document: Effect, options: ExportOptionsInput, progress: (done: number, total: number, step: string) => void) =>
         ask<ExportFile[]>((job) => ({ type: "export", job, document, options }), progress),

@@ -4,7 +4,9 @@
  */
 import { compileShifts, parseEffect } from "@skewsmith/core";
 import { drawFrame, NO_OVERLAYS, PixelStage } from "../../app/bench/draw.ts";
+import { FrameFeed, recyclable } from "../../app/bench/frameFeed.ts";
 import type { FromWorker, ToWorker } from "../../app/bench/protocol.ts";
+import type { FrameAnswer, FrameAsk } from "../../app/bench/useBenchWorker.ts";
 
 const STORM = parseEffect({
   canvas: { width: 256, height: 224 },
@@ -73,32 +75,29 @@ async function run() {
   }
   out.tablesMs = median(tables);
 
-  // One frame computed in the worker and drawn at zoom 3, against one putImageData of the same canvas's pixels.
+  // One frame at zoom 3: the bench's worker computes it (render, colours, zoom) and the page draws it.
   const preview = document.getElementById("preview") as HTMLCanvasElement;
   preview.width = W * ZOOM;
   preview.height = H * ZOOM;
   const ctx = preview.getContext("2d")!;
   const stage = new PixelStage();
   let request = 0;
-  const frame = async (index: number) => {
+  const ask = async (want: FrameAsk): Promise<FrameAnswer> => {
     request++;
-    const m = await reply(`frame:${request}`, {
-      type: "frame",
-      request,
-      index,
-      pass: 3,
-      wants: { marks: false, error: false, keys: false },
-    });
+    const m = await reply(`frame:${request}`, { type: "frame", request, ...want });
     if (m.type !== "frame") throw new Error("no frame");
-    return m;
+    return { index: m.index, pass: m.pass, degrees: m.degrees, picture: m.picture, display: m.display, generation: m.generation };
   };
-  const draw = (m: Extract<FromWorker, { type: "frame" }>) => {
+  const wants = { marks: false, error: false, keys: false };
+  const frameAsk = (index: number): FrameAsk => ({ index, pass: 3, wants, zoom: ZOOM, shade: false });
+  const draw = (a: FrameAnswer, zoomed = true) => {
     drawFrame(ctx, stage, {
-      picture: m.picture,
+      picture: a.picture,
+      display: zoomed ? a.display : null,
       width: W,
       height: H,
       zoom: ZOOM,
-      degrees: m.degrees,
+      degrees: a.degrees,
       pivot: STORM.pivot,
       outline: null,
       overlays: NO_OVERLAYS,
@@ -114,12 +113,63 @@ async function run() {
     }
     return median(times);
   };
-  await batches(async (i) => draw(await frame(i % 48)));
-  out.frameMs = await batches(async (i) => draw(await frame(i % 48)));
-  // Where a frame's time goes: the drawing alone, and the worker's part (round trip included).
-  const one = await frame(7);
+
+  // Playback as the preview does it (FrameFeed: frames asked ahead, a small cache), the page drawing each frame as it
+  // is shown. Per frame: the wall time (bounded by the worker when it is the slower side) and the page's own part.
+  let pageMs = 0;
+  let shownCount = 0;
+  let shown: (() => void) | null = null;
+  const recycle = (a: FrameAnswer) => {
+    const buffers = recyclable(a);
+    worker.postMessage({ type: "recycle", buffers } satisfies ToWorker, buffers);
+  };
+  const feed = new FrameFeed(
+    ask,
+    (a) => {
+      const t = performance.now();
+      draw(a);
+      pageMs += performance.now() - t;
+      shownCount++;
+      shown?.();
+    },
+    { release: recycle },
+  );
+  const play = (i: number) =>
+    new Promise<void>((resolve) => {
+      const before = shownCount;
+      shown = () => shownCount > before && resolve();
+      feed.want({ ...frameAsk(i % 48), generation, frames: 48, playing: true });
+    });
+  await batches(play);
+  pageMs = 0;
+  shownCount = 0;
+  out.playbackMs = await batches(play);
+  out.playbackPageMs = pageMs / shownCount;
+
+  // A jump to a frame not in the feed's cache (paused, 5 frames on each time, so every one misses): computed in the
+  // worker, the round trip and the drawing included.
+  let arrived: (() => void) | null = null;
+  const jumps = new FrameFeed(
+    ask,
+    (a) => {
+      draw(a);
+      arrived?.();
+    },
+    { release: recycle },
+  );
+  const jump = (i: number) =>
+    new Promise<void>((resolve) => {
+      arrived = resolve;
+      jumps.want({ ...frameAsk((i * 5) % 48), generation, frames: 48, playing: false });
+    });
+  await batches(jump);
+  out.frameMs = await batches(jump);
+  // Where that time goes: the drawing alone, the worker's part (round trip included), and the old way of drawing
+  // (the 1× pixels on a stage canvas, scaled by drawImage).
+  const one = await ask(frameAsk(7));
   out.drawMs = await batches(() => draw(one));
-  out.workerMs = await batches((i) => frame(i % 48));
+  out.drawScaledMs = await batches(() => draw(one, false));
+  out.workerMs = await batches(async (i) => recycle(await ask(frameAsk(i % 48))));
 
   const baseline = document.getElementById("baseline") as HTMLCanvasElement;
   baseline.width = W * ZOOM;

@@ -3,14 +3,15 @@
  * and saves; this composes the panels and keeps the view (frame, pass, zoom) in the address.
  */
 import type { CanvasFit } from "@skewsmith/core";
-import { useCallback, useEffect, useMemo, useRef, useState, useSyncExternalStore, type KeyboardEvent } from "react";
+import { useCallback, useEffect, useMemo, useState, useSyncExternalStore, type KeyboardEvent } from "react";
 import { Link } from "react-router";
 import useSWR from "swr";
 import type { KeyPixel } from "../../bench/draft.ts";
 import { NO_OVERLAYS, type Overlays } from "../../bench/draw.ts";
 import { growToFit } from "../../bench/fit.ts";
 import type { FrameRow } from "../../bench/engine.ts";
-import { useBenchWorker, type FrameAnswer } from "../../bench/useBenchWorker.ts";
+import { useBenchWorker } from "../../bench/useBenchWorker.ts";
+import { useFrameFeed } from "../../bench/useFrameFeed.ts";
 import { PASS_LABELS, viewHref, ZOOM_MAX, ZOOM_MIN, type BenchView, type Pass } from "../../bench/view.ts";
 import type { loader } from "../../routes/effect.tsx";
 import type { SavedDiagnostics } from "../../bench/saved.server.ts";
@@ -78,7 +79,6 @@ export function Bench({ data }: { data: Data }) {
   const [overlays, setOverlays] = useState<Overlays>(NO_OVERLAYS);
   const [pointerMode, setPointerMode] = useState<PointerMode>("view");
   const [align, setAlign] = useState(1);
-  const [answer, setAnswer] = useState<FrameAnswer | null>(null);
   const frames = worker.state.loaded?.frames ?? data.diagnostics.rows?.length ?? 1;
   const frame = Math.min(view.frame, frames - 1);
 
@@ -112,36 +112,27 @@ export function Bench({ data }: { data: Data }) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [loadKey]);
 
-  // One frame request at a time; the latest wish wins.
+  // The frame shown: from the feed's cache, or asked of the worker (with the next ones asked ahead while playing).
   const wants = useMemo(
     () => ({ marks: overlays.marks, error: overlays.error, keys: overlays.keys }),
     [overlays.marks, overlays.error, overlays.keys],
   );
-  const askFrame = worker.frame;
-  const inFlight = useRef(false);
-  const wanted = useRef<{ index: number; pass: Pass } | null>(null);
-  const request = useCallback(() => {
-    if (inFlight.current || !wanted.current) return;
-    const w = wanted.current;
-    wanted.current = null;
-    inFlight.current = true;
-    askFrame(w.index, w.pass, wants).then(
-      (a) => {
-        inFlight.current = false;
-        setAnswer(a);
-        request();
-      },
-      () => {
-        inFlight.current = false;
-        request();
-      },
-    );
-  }, [askFrame, wants]);
-  useEffect(() => {
-    if (!worker.state.loaded) return;
-    wanted.current = { index: frame, pass: view.pass };
-    request();
-  }, [frame, view.pass, worker.state.generation, worker.state.loaded, request]);
+  const answer = useFrameFeed(
+    worker.frame,
+    worker.recycle,
+    worker.state.loaded
+      ? {
+          generation: worker.state.generation,
+          index: frame,
+          pass: view.pass,
+          zoom: view.zoom,
+          shade: overlays.error,
+          wants,
+          frames,
+          playing,
+        }
+      : null,
+  );
 
   // The address follows the view (replaced, not pushed), except while playing.
   useEffect(() => {

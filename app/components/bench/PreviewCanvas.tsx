@@ -71,6 +71,7 @@ export function PreviewCanvas({
     stage.current ??= new PixelStage();
     drawFrame(ctx, stage.current, {
       picture: answer.picture,
+      display: answer.display,
       width,
       height,
       zoom,
