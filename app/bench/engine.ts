@@ -8,7 +8,7 @@ import {
   angleTrack,
   canvasFit,
   compileShifts,
-  frameDiagnostics,
+  diagnoseFrames,
   imagePlane,
   opaqueMask,
   placeImage,
@@ -17,6 +17,7 @@ import {
   type CompiledTables,
   type Effect,
   type FrameTables,
+  type FramesDiagnostics,
   type Image,
   type IndexedImage,
   type PixelData,
@@ -170,9 +171,12 @@ class Renderers {
   }
 }
 
+/** About how many pixel checks one step of TrackDiagnosis makes at most (one frame at least). */
+const DIAGNOSE_PIXELS_PER_STEP = 1 << 20;
+
 /**
  * Measures a whole track frame by frame, so a caller can stop between frames, show rows as they come, or give up when
- * the settings changed. Core's frameDiagnostics does the measuring (with the sprite's mask and with the key pixels'),
+ * the settings changed. Core's diagnoseFrames does the measuring (with the sprite's mask and with the key pixels'),
  * and core's Renderer follows the key pixels to count the neighbours that came apart.
  */
 export class TrackDiagnosis {
@@ -204,14 +208,23 @@ export class TrackDiagnosis {
     return this.next;
   }
 
-  /** Measures frames until `deadline` (a performance.now() time) or the end, at least one; returns their rows. */
+  /**
+   * Measures frames until `deadline` (a performance.now() time) or the end, at least one; returns their rows. The
+   * errors and edge counts come from core's diagnoseFrames, the module the command line's worker threads run, a few
+   * frames at a time (fewer on a big canvas, so a new message never waits long).
+   */
   step(deadline = Infinity): FrameRow[] {
     const rows: FrameRow[] = [];
     const { frames } = this.tables;
+    const { effect, source } = this;
+    const chunk = Math.max(1, Math.min(8, Math.floor(DIAGNOSE_PIXELS_PER_STEP / (source.width * source.height))));
     do {
       if (this.next >= frames.length) break;
-      rows.push(this.row(frames[this.next]));
-      this.next++;
+      const range = { start: this.next, end: Math.min(frames.length, this.next + chunk) };
+      const d = diagnoseFrames(effect, range, source.mask ?? undefined);
+      const keys = source.keyMask && this.keyPlane ? diagnoseFrames(effect, range, source.keyMask) : null;
+      for (let i = range.start; i < range.end; i++) rows.push(this.row(frames[i], d, keys));
+      this.next = range.end;
     } while (performance.now() < deadline);
     return rows;
   }
@@ -221,13 +234,12 @@ export class TrackDiagnosis {
     return this.step(Infinity);
   }
 
-  private row(frame: FrameTables): FrameRow {
-    const { effect, source } = this;
-    const d = frameDiagnostics(frame, effect, source.mask ?? undefined);
+  private row(frame: FrameTables, d: FramesDiagnostics, keys: FramesDiagnostics | null): FrameRow {
+    const i = frame.index - d.start;
     let keyMaxErrorPx: number | null = null;
     let keyApart: number | null = null;
-    if (source.keyMask && this.keyPlane) {
-      keyMaxErrorPx = frameDiagnostics(frame, effect, source.keyMask).maxErrorPx;
+    if (keys && this.keyPlane) {
+      keyMaxErrorPx = keys.maxErrorPx[i];
       keyApart = this.apart(frame);
     }
     return {
@@ -240,7 +252,10 @@ export class TrackDiagnosis {
       beta: frame.beta,
       saturated: frame.saturated,
       maxAbsShift: frame.maxAbsShift,
-      ...d,
+      maxErrorPx: d.maxErrorPx[i],
+      meanErrorPx: d.meanErrorPx[i],
+      wrapped: d.wrapped[i],
+      clipped: d.clipped[i],
       keyMaxErrorPx,
       keyApart,
     };
