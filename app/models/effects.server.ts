@@ -103,10 +103,18 @@ export async function createEffect(
       }
       if (input.spriteId) {
         const [sprite] = await tx
-          .select({ id: sprites.id })
+          .select({ id: sprites.id, name: sprites.name, png: sprites.png })
           .from(sprites)
           .where(and(eq(sprites.id, input.spriteId), eq(sprites.projectId, project.id)));
         if (!sprite) throw new DomainError("That sprite does not belong to this project.", { field: "spriteId" });
+        // A new effect made for a target with a colour limit starts within it, as a bench save would have to.
+        if (profile?.maxColours != null) {
+          const colours = spriteColours(decodePng(sprite.png));
+          if (colours > profile.maxColours)
+            throw new DomainError(tooManyColours({ sprite: sprite.name, colours, profile: profile.name, limit: profile.maxColours }), {
+              field: "spriteId",
+            });
+        }
       }
       const document = input.document === undefined ? newEffectDocument(profile ?? undefined) : validDocument(input.document);
       await assertNameFree(tx, project.id, input.name);

@@ -1,4 +1,4 @@
-import { EffectError, ExportOptionError, resolveExportOptions, type Effect, type ExportOptionsInput } from "@skewsmith/core";
+import { decodePng, EffectError, ExportOptionError, resolveExportOptions, type Effect, type ExportOptionsInput } from "@skewsmith/core";
 import { and, asc, count, eq, inArray, isNull, sql } from "drizzle-orm";
 import type { z } from "zod";
 import type { Tx } from "../db/client.server.ts";
@@ -6,6 +6,7 @@ import {
   effectProfileChanges,
   effects,
   projects,
+  sprites,
   targetProfiles,
   users,
   type EffectRow,
@@ -17,6 +18,7 @@ import { exportDefaultsForProfile } from "../exports/defaults.ts";
 import { fieldErrors, NAME_MAX } from "../forms.ts";
 import { applyProfileToDocument, exportChanges, settingsChanges } from "../profiles/apply.ts";
 import { starterProfile } from "../profiles/starters.ts";
+import { SPRITE_COLOURS, spriteColours } from "../sprites/colours.ts";
 import { recordActivity } from "./activity.server.ts";
 import { validDocument } from "./effects.server.ts";
 import { DomainError, isUniqueViolation } from "./errors.ts";
@@ -297,6 +299,8 @@ export async function updateTargetProfile(
 
       // Lock every effect that uses the profile, in one order, before changing any of them.
       const using = await tx.select().from(effects).where(eq(effects.targetProfileId, before.id)).orderBy(asc(effects.id)).for("update");
+      if (after.maxColours !== null && (before.maxColours === null || after.maxColours < before.maxColours))
+        await checkLoweredLimit(tx, after.maxColours, using);
       let effectsUpdated = 0;
       for (const effect of using) {
         let reached: ProfileFieldChange[] = [];
@@ -336,6 +340,32 @@ export async function updateTargetProfile(
       return { profile: after, effectsUpdated, changes };
     }),
   );
+}
+
+/**
+ * Refuses a colour limit below what a sprite of an effect using the profile needs (deleted effects are not checked:
+ * they are restored as they are then), naming the field, the sprite, the effect and the limits still allowed.
+ */
+async function checkLoweredLimit(tx: Tx, limit: number, using: (typeof effects.$inferSelect)[]): Promise<void> {
+  const live = using.filter((e) => e.deletedAt === null && e.spriteId !== null);
+  const spriteIds = [...new Set(live.map((e) => e.spriteId!))];
+  if (spriteIds.length === 0) return;
+  const rows = await tx
+    .select({ id: sprites.id, name: sprites.name, png: sprites.png })
+    .from(sprites)
+    .where(inArray(sprites.id, spriteIds));
+  let worst: { colours: number; sprite: string; effect: string } | null = null;
+  for (const row of rows) {
+    const colours = spriteColours(decodePng(row.png));
+    if (colours > limit && (!worst || colours > worst.colours))
+      worst = { colours, sprite: row.name, effect: live.find((e) => e.spriteId === row.id)!.name };
+  }
+  if (worst)
+    throw new DomainError(
+      `Colour limit ${limit} is below the ${worst.colours} colours (the background included) of the sprite ${worst.sprite}, which the effect ${worst.effect} uses with this profile: allowed ${worst.colours} to ${SPRITE_COLOURS.max} while it does, or none. Reduce the sprite's colours first.`,
+      // 400, not 409: the form reads a 409 as someone else's newer version.
+      { field: "maxColours" },
+    );
 }
 
 /** The first free "<name> copy", "<name> copy 2", … among the team's profiles. */
