@@ -3,7 +3,7 @@
  * and saves; this composes the panels and keeps the view (frame, pass, zoom) in the address.
  */
 import type { CanvasFit } from "@skewsmith/core";
-import { useCallback, useEffect, useMemo, useState, useSyncExternalStore, type KeyboardEvent } from "react";
+import { useCallback, useEffect, useMemo, useState, type KeyboardEvent } from "react";
 import { Link } from "react-router";
 import useSWR from "swr";
 import type { KeyPixel } from "../../bench/draft.ts";
@@ -12,6 +12,7 @@ import { growToFit } from "../../bench/fit.ts";
 import type { FrameRow } from "../../bench/engine.ts";
 import { useBenchWorker } from "../../bench/useBenchWorker.ts";
 import { useFrameFeed } from "../../bench/useFrameFeed.ts";
+import { usePlayback, useReducedMotion } from "../../bench/usePlayback.ts";
 import { PASS_LABELS, viewHref, ZOOM_MAX, ZOOM_MIN, type BenchView, type Pass } from "../../bench/view.ts";
 import type { loader } from "../../routes/effect.tsx";
 import type { SavedDiagnostics } from "../../bench/saved.server.ts";
@@ -36,21 +37,6 @@ const json = <T,>(url: string): Promise<T> =>
     if (!r.ok) throw new Error(`${url}: ${r.status}`);
     return r.json() as Promise<T>;
   });
-
-const REDUCED_MOTION = "(prefers-reduced-motion: reduce)";
-
-/** Whether the system asks for reduced motion (false on the server, where there is no system to ask). */
-function useReducedMotion(): boolean {
-  return useSyncExternalStore(
-    (change) => {
-      const query = window.matchMedia(REDUCED_MOTION);
-      query.addEventListener("change", change);
-      return () => query.removeEventListener("change", change);
-    },
-    () => window.matchMedia(REDUCED_MOTION).matches,
-    () => false,
-  );
-}
 
 export function Bench({ data }: { data: Data }) {
   const { effect, team, project, role, editable, profiles } = data;
@@ -144,19 +130,11 @@ export function Bench({ data }: { data: Data }) {
 
   // Playback: the frame advances at the chosen rate (held lower under reduced motion).
   const shownRate = reducedMotion ? Math.min(rate, REDUCED_MOTION_MAX_RATE) : rate;
-  useEffect(() => {
-    if (!playing) return;
-    let last = performance.now();
-    let id = requestAnimationFrame(function tick(now) {
-      const steps = Math.floor(((now - last) * shownRate) / 1000);
-      if (steps > 0) {
-        last += (steps * 1000) / shownRate;
-        setView((v) => ({ ...v, frame: (Math.min(v.frame, frames - 1) + steps) % frames }));
-      }
-      id = requestAnimationFrame(tick);
-    });
-    return () => cancelAnimationFrame(id);
-  }, [playing, shownRate, frames]);
+  const advance = useCallback(
+    (steps: number) => setView((v) => ({ ...v, frame: (Math.min(v.frame, frames - 1) + steps) % frames })),
+    [frames],
+  );
+  usePlayback(playing, shownRate, advance);
 
   const setFrame = useCallback((f: number) => setView((v) => ({ ...v, frame: Math.max(0, Math.min(frames - 1, f)) })), [frames]);
   const setPass = (pass: Pass) => setView((v) => ({ ...v, pass }));
