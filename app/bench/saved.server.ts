@@ -3,7 +3,7 @@ import { decodePng } from "@skewsmith/core";
 import type { Tx } from "../db/client.server.ts";
 import type { EffectRow } from "../db/schema.ts";
 import { validDocument } from "../models/effects.server.ts";
-import { getSpriteFile } from "../models/sprites.server.ts";
+import { getSpriteFile, getSpriteVersion } from "../models/sprites.server.ts";
 import type { BenchState } from "./draft.ts";
 import { diagnosisCost, prepareSource, TrackDiagnosis, type FrameRow } from "./engine.ts";
 
@@ -34,13 +34,38 @@ export interface SavedDiagnostics {
   tooLarge: boolean;
 }
 
+/**
+ * Answers already measured, by everything they depend on: the effect's id and version, its bench state and its
+ * sprite's version (a replaced picture bumps it). The oldest goes first beyond CACHE_MAX; an answer is never changed
+ * once made, so requests share it. Measuring was most of what an effect page cost the server.
+ */
+const cache = new Map<string, SavedDiagnostics>();
+const CACHE_MAX = 32;
+
 /** Measures the saved effect over its sprite's opaque pixels and its key pixels, as the bench's worker does. */
 export async function savedDiagnostics(db: Tx, row: EffectRow): Promise<SavedDiagnostics> {
   const state = benchState(row);
+  // The version is read before the picture: a replacement in between is measured under the older key, never the reverse.
+  const spriteVersion = state.spriteId ? await getSpriteVersion(db, state.spriteId) : null;
+  const key = JSON.stringify([row.id, row.version, state, spriteVersion]);
+  const hit = cache.get(key);
+  if (hit) {
+    cache.delete(key);
+    cache.set(key, hit);
+    return hit;
+  }
   const file = state.spriteId ? await getSpriteFile(db, state.spriteId) : null;
   const sprite = file ? decodePng(new Uint8Array(file.png)) : null;
   const source = prepareSource(state.document, sprite, state.spriteX, state.spriteY, state.keyPixels);
   const base = { version: row.version, content: source.content, masked: source.mask !== null };
-  if (diagnosisCost(state.document) > SERVER_DIAGNOSIS_MAX) return { ...base, rows: null, tooLarge: true };
-  return { ...base, rows: new TrackDiagnosis(state.document, source).all(), tooLarge: false };
+  const answer: SavedDiagnostics =
+    diagnosisCost(state.document) > SERVER_DIAGNOSIS_MAX
+      ? { ...base, rows: null, tooLarge: true }
+      : { ...base, rows: new TrackDiagnosis(state.document, source).all(), tooLarge: false };
+  cache.set(key, answer);
+  for (const old of cache.keys()) {
+    if (cache.size <= CACHE_MAX) break;
+    cache.delete(old);
+  }
+  return answer;
 }

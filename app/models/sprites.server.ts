@@ -381,6 +381,12 @@ export async function getSpriteFile(
   return row ?? null;
 }
 
+/** A sprite's version (bumped by every change, a new picture included), or null when there is no such sprite. */
+export async function getSpriteVersion(db: Tx, spriteId: string): Promise<number | null> {
+  const [row] = await db.select({ version: sprites.version }).from(sprites).where(eq(sprites.id, spriteId));
+  return row?.version ?? null;
+}
+
 /** A sprite's row and its decoded picture (core's decodePng: the stored file passed every upload check on the way in). */
 export async function getSpriteImage(db: Tx, spriteId: string): Promise<{ sprite: Sprite; image: Image } | null> {
   const [sprite] = await db.select().from(sprites).where(eq(sprites.id, spriteId));
