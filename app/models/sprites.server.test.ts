@@ -363,7 +363,19 @@ describe("deleteSprite", () => {
   it("refuses (409, nothing changed) a new picture with more colours than the target profile of an effect using it allows", async () => {
     const { owner, team, project } = await setup();
     const profile = await makeTargetProfile(db, { team, actor: owner, name: "Three shades", maxColours: 3 });
-    const sprite = await makeSprite(db, { project, actor: owner });
+    // The effect starts within the limit (a new effect must): three colours, the background included.
+    const three: IndexedImage = {
+      kind: "indexed",
+      width: 3,
+      height: 1,
+      data: new Uint8Array([0, 1, 2]),
+      palette: [
+        [0, 0, 0, 0],
+        [255, 255, 255, 255],
+        [20, 28, 44, 255],
+      ],
+    };
+    const sprite = await makeSprite(db, { project, actor: owner, image: three });
     await makeEffect(db, { project, actor: owner, name: "Title spin", sprite, targetProfile: profile });
     const rose = compassRose(32);
     const colours = spriteColours(rose);
