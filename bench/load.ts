@@ -26,16 +26,20 @@
  * clients with 429.
  *
  * --baseline <git ref> also serves that commit (extracted with git archive into .tmp/bench/, built there with this
- * checkout's node_modules, on a database of its own): every scenario is cut into 5-second rounds that alternate
+ * checkout's node_modules, on a database of its own migrated and seeded by this checkout): every scenario is cut into 5-second rounds that alternate
  * between the two servers, so before and after are measured in the same run under the same machine load, and the
  * ratios are printed. --cpu-prof runs the server under `node --cpu-prof` and prints where a
  * render spends its time. A benchmark prints numbers, never verdicts: nothing here passes or fails.
  *
+ * --save-pages writes one page of each route, as each server answers it, into .tmp/bench/pages/ (to see what a page
+ * sends).
+ *
  * Run: node --import tsx bench/load.ts [--baseline REF] [--duration 30] [--clients 100] [--cpu-prof] [--only NAME,…]
+ *      [--save-pages] [--pg-port PORT]
  */
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, symlinkSync } from "node:fs";
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from "node:fs";
 import { createServer } from "node:net";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
@@ -61,6 +65,7 @@ const { values: args } = parseArgs({
     clients: { type: "string", default: "100" },
     "cpu-prof": { type: "boolean", default: false },
     only: { type: "string" },
+    "save-pages": { type: "boolean", default: false },
     "pg-port": { type: "string", default: "55431" },
   },
 });
@@ -116,6 +121,13 @@ interface Outcome {
   rssAfter: number;
   /** Requests sent and failed (not 2xx) by kind. */
   kinds: Map<string, { sent: number; failed: number }>;
+  /** Answers and their bytes (the body as sent, without compression) by the route a path belongs to. */
+  sizes: Map<string, { answers: number; bytes: number }>;
+}
+
+/** The route of a path, for sizes: its first segment, or "home". */
+function routeOf(path: string): string {
+  return path.split("/")[1]?.split("?")[0] || "home";
 }
 
 function log(message: string): void {
@@ -379,6 +391,7 @@ interface Raw {
   rssBefore: number;
   rssAfter: number;
   kinds: Map<string, { sent: number; failed: number }>;
+  sizes: Map<string, { answers: number; bytes: number }>;
 }
 
 async function run(
@@ -388,6 +401,7 @@ async function run(
 ): Promise<Raw> {
   const latencies: number[] = [];
   const kinds = new Map<string, { sent: number; failed: number }>();
+  const sizes = new Map<string, { answers: number; bytes: number }>();
   const rssBefore = server.rss();
   const cpuBefore = [cpuMs(server.child.pid!), databaseCpuMs(server.database)];
   let next = 0;
@@ -410,6 +424,8 @@ async function run(
           const r = (context as { req?: Req }).req;
           if (!r) return;
           if (status < 200 || status > 299) kinds.get(r.kind)!.failed += 1;
+          const size = sizes.get(routeOf(r.path)) ?? { answers: 0, bytes: 0 };
+          sizes.set(routeOf(r.path), { answers: size.answers + 1, bytes: size.bytes + Buffer.byteLength(body) });
           r.done?.(status, body);
         },
       },
@@ -429,6 +445,7 @@ async function run(
     rssBefore,
     rssAfter: server.rss(),
     kinds,
+    sizes,
   };
 }
 
@@ -457,6 +474,13 @@ function outcome(name: string, clients: number, parts: Raw[]): Outcome {
       }
       return all;
     }, new Map<string, { sent: number; failed: number }>()),
+    sizes: parts.reduce((all, p) => {
+      for (const [route, k] of p.sizes) {
+        const a = all.get(route) ?? { answers: 0, bytes: 0 };
+        all.set(route, { answers: a.answers + k.answers, bytes: a.bytes + k.bytes });
+      }
+      return all;
+    }, new Map<string, { answers: number; bytes: number }>()),
   };
 }
 
@@ -519,6 +543,11 @@ function print(label: string, outcomes: Outcome[]): void {
   if (floor)
     for (const o of outcomes.filter((x) => x.name.startsWith("pages")))
       console.log(`  ${o.name}: ${(o.rps / floor.rps).toFixed(3)} of the floor's requests per second`);
+  const paged = outcomes.find((o) => o.name.startsWith("pages"));
+  if (paged)
+    console.log(
+      `  ${paged.name}, kB per page by route: ${[...paged.sizes].map(([route, k]) => `${route} ${(k.bytes / k.answers / 1024).toFixed(1)}`).join(", ")}`,
+    );
   for (const o of outcomes.filter((x) => x.name.startsWith("mix")))
     console.log(`  ${o.name} by kind (sent / failed): ${[...o.kinds].map(([kind, k]) => `${kind} ${k.sent} / ${k.failed}`).join(", ")}`);
 }
@@ -538,7 +567,9 @@ async function main(): Promise<void> {
       const secret = randomBytes(32).toString("hex");
       let world: World;
       try {
-        await migrate(db, { migrationsFolder: path.join(target.dir, "drizzle") });
+        // This checkout's migrations, for a baseline too: its factories seed the database, and an older commit's
+        // code leaves alone the columns and indexes it does not know (an older commit's missing ones would fail the seed).
+        await migrate(db, { migrationsFolder: path.join(ROOT, "drizzle") });
         log(`seeding ${target.label}`);
         world = await seed(db, secret);
       } finally {
@@ -547,6 +578,19 @@ async function main(): Promise<void> {
       const profileDir = args["cpu-prof"] ? path.join(WORK, `prof-${i}-${Date.now()}`) : undefined;
       running.push({ target, server: await startServer(target, databaseUrl, secret, profileDir), world, outcomes: [], profileDir });
     }
+    if (args["save-pages"])
+      for (const [i, r] of running.entries()) {
+        const dir = path.join(WORK, "pages", `${i}-${r.target.label.replace(/\W+/g, "-")}`);
+        mkdirSync(dir, { recursive: true });
+        const seen = new Set<string>();
+        for (const page of r.world.pages) {
+          if (seen.has(routeOf(page))) continue;
+          seen.add(routeOf(page));
+          const answer = await fetch(`${r.server.url}${page}`, { headers: { cookie: r.world.cookies[0] } });
+          writeFileSync(path.join(dir, `${routeOf(page)}.html`), await answer.text());
+        }
+        log(`pages of ${r.target.label} written to ${path.relative(ROOT, dir)}`);
+      }
     // Both servers are up, idle but one; each scenario runs on every server in turn, so before and after meet the
     // same machine load (other work on the machine comes and goes).
     for (const r of running) {
