@@ -42,11 +42,15 @@ export interface SavedDiagnostics {
 const cache = new Map<string, SavedDiagnostics>();
 const CACHE_MAX = 32;
 
-/** Measures the saved effect over its sprite's opaque pixels and its key pixels, as the bench's worker does. */
-export async function savedDiagnostics(db: Tx, row: EffectRow): Promise<SavedDiagnostics> {
+/**
+ * Measures the saved effect over its sprite's opaque pixels and its key pixels, as the bench's worker does.
+ * `known.spriteVersion` is the sprite's version when the caller has just read it (the effect page lists the project's
+ * sprites), saving a query; it must have been read before this call.
+ */
+export async function savedDiagnostics(db: Tx, row: EffectRow, known: { spriteVersion?: number } = {}): Promise<SavedDiagnostics> {
   const state = benchState(row);
   // The version is read before the picture: a replacement in between is measured under the older key, never the reverse.
-  const spriteVersion = state.spriteId ? await getSpriteVersion(db, state.spriteId) : null;
+  const spriteVersion = state.spriteId ? (known.spriteVersion ?? (await getSpriteVersion(db, state.spriteId))) : null;
   const key = JSON.stringify([row.id, row.version, state, spriteVersion]);
   const hit = cache.get(key);
   if (hit) {

@@ -29,6 +29,13 @@ describe("listProjectActivityPage", () => {
     ]);
     const last = await listProjectActivityPage(db, { teamId: team.id, projectId: project.id }, 3, 4);
     expect(last.items.map((i) => i.action)).toEqual(["team.created"]);
+    expect(last).toMatchObject({ page: 3, pages: 3, total: 9 });
+    // Past the end no row carries the count; it is still the count of all 9.
+    expect(await listProjectActivityPage(db, { teamId: team.id, projectId: project.id }, 7, 4)).toMatchObject({
+      items: [],
+      pages: 3,
+      total: 9,
+    });
     const all = [1, 2, 3].map((p) => listProjectActivityPage(db, { teamId: team.id, projectId: project.id }, p, 4));
     const summaries = (await Promise.all(all)).flatMap((p) => p.items.map((i) => i.summary));
     expect(new Set(summaries).size).toBe(9);

@@ -88,15 +88,17 @@ export async function listProjectActivityPage(
     conditions.push(or(...prefixes.map((p) => sql`starts_with(${activity.action}, ${p})`))!);
   }
   const filter = and(...conditions);
-  const [{ n }] = await db.select({ n: count() }).from(activity).where(filter);
+  // The page and the count of all matching rows in one round trip (a window over the filtered rows); a page past the
+  // end has no row to carry the count, and only then is it asked for apart.
   const rows = await db
-    .select(ITEM_COLUMNS)
+    .select({ ...ITEM_COLUMNS, total: sql<number>`(count(*) over ())::int` })
     .from(activity)
     .leftJoin(users, eq(users.id, activity.userId))
     .where(filter)
     .orderBy(desc(activity.createdAt), desc(activity.id))
     .limit(pageSize)
     .offset((page - 1) * pageSize);
+  const n = rows.length > 0 ? rows[0].total : page === 1 ? 0 : (await db.select({ n: count() }).from(activity).where(filter))[0].n;
   return {
     items: rows.map(toItem),
     page,

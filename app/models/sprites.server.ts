@@ -329,8 +329,11 @@ export interface SpriteListItem {
   usedBy: SpriteUse[];
 }
 
-/** A project's sprites, by name, without their bytes, each with the effects that use it. */
+/** A project's sprites, by name, without their bytes, each with the effects that use it: one query (pages show it). */
 export async function listSprites(db: Tx, projectId: string): Promise<SpriteListItem[]> {
+  const usedBy = sql<SpriteUse[]>`coalesce((
+    select json_agg(json_build_object('id', e.id, 'name', e.name, 'deleted', e.deleted_at is not null) order by lower(e.name), e.id)
+    from ${effects} e where e.sprite_id = ${sprites.id}), '[]'::json)`;
   const rows = await db
     .select({
       id: sprites.id,
@@ -344,29 +347,13 @@ export async function listSprites(db: Tx, projectId: string): Promise<SpriteList
       uploadedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
       createdAt: sprites.createdAt,
       updatedAt: sprites.updatedAt,
+      usedBy,
     })
     .from(sprites)
     .leftJoin(users, eq(users.id, sprites.uploadedBy))
     .where(eq(sprites.projectId, projectId))
     .orderBy(asc(sql`lower(${sprites.name})`));
-  const uses =
-    rows.length === 0
-      ? []
-      : await db
-          .select({ spriteId: effects.spriteId, id: effects.id, name: effects.name, deletedAt: effects.deletedAt })
-          .from(effects)
-          .where(
-            inArray(
-              effects.spriteId,
-              rows.map((r) => r.id),
-            ),
-          )
-          .orderBy(asc(sql`lower(${effects.name})`));
-  return rows.map((r) => ({
-    ...r,
-    colours: r.palette.length,
-    usedBy: uses.filter((u) => u.spriteId === r.id).map((u) => ({ id: u.id, name: u.name, deleted: u.deletedAt !== null })),
-  }));
+  return rows.map((r) => ({ ...r, colours: r.palette.length }));
 }
 
 /** A sprite's PNG bytes, its version and the project it belongs to. */

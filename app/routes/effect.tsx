@@ -28,13 +28,14 @@ export const handle = { wide: true };
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { team, project, effect, role } = await requireEffectRole(request, params.effectId, "viewer");
   const saved = benchState(effect);
-  const [profiles, sprites, updatedBy, diagnostics, profileChange] = await Promise.all([
+  const [profiles, sprites, updatedBy, profileChange] = await Promise.all([
     listTargetProfiles(db(), team.id),
     listSprites(db(), project.id),
     effect.updatedBy ? getUser(db(), effect.updatedBy) : null,
-    savedDiagnostics(db(), effect),
     getProfileChange(db(), effect.id),
   ]);
+  // The sprite's version comes with the project's list, read before its picture is (as savedDiagnostics requires).
+  const diagnostics = await savedDiagnostics(db(), effect, { spriteVersion: sprites.find((s) => s.id === effect.spriteId)?.version });
   const frames =
     diagnostics.rows?.length ?? ("list" in saved.document.angles ? saved.document.angles.list.length : saved.document.angles.sweep.frames);
   const profile = profiles.find((p) => p.id === effect.targetProfileId) ?? null;

@@ -28,6 +28,13 @@ const KEY_COLUMNS: typeof COLUMNS = [
   { key: "keyApart", label: "Keys apart", right: true, title: "pairs of touching key pixels that no longer touch" },
 ];
 
+/**
+ * Rows the first render draws (on the server, and in the browser while it takes the page over): the region shows about
+ * twenty at a time. The rest follow right after, in the browser; rendering every row of a long track on the server
+ * was most of an effect page's rendering time, for rows nobody sees before the page is live.
+ */
+export const FIRST_ROWS = 20;
+
 function troubled(row: FrameRow): boolean {
   return row.wrapped > 0 || row.clipped > 0 || row.saturated;
 }
@@ -111,6 +118,9 @@ export function FrameTable({
     return [...rows].sort((a, b) => (((a[k] ?? -1) as number) - ((b[k] ?? -1) as number)) * sort.dir || a.index - b.index);
   }, [rows, sort]);
   const body = useRef<HTMLDivElement>(null);
+  const [live, setLive] = useState(false);
+  useEffect(() => setLive(true), []);
+  const shown = live || sorted.length <= FIRST_ROWS ? sorted : sorted.slice(0, FIRST_ROWS);
 
   useEffect(() => {
     if (!following || !body.current) return;
@@ -173,7 +183,7 @@ export function FrameTable({
             </tr>
           </thead>
           <tbody>
-            {sorted.map((row) => (
+            {shown.map((row) => (
               <Row key={row.index} row={row} current={row.index === current} keys={keys} onJump={onJump} />
             ))}
           </tbody>
