@@ -1,5 +1,6 @@
 import { decodePng, EffectError, ExportOptionError, resolveExportOptions, type Effect, type ExportOptionsInput } from "@skewsmith/core";
 import { and, asc, count, eq, inArray, isNull, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
 import type { z } from "zod";
 import type { Tx } from "../db/client.server.ts";
 import {
@@ -558,8 +559,22 @@ export interface ProfileChangeView {
 
 /** The record of the last profile change that reached the effect, or null when none has. */
 export async function getProfileChange(db: Tx, effectId: string): Promise<ProfileChangeView | null> {
+  return (await getEffectChanges(db, effectId)).profileChange;
+}
+
+/**
+ * Who saved the effect last (name and login, or null) and the last profile change that reached it: the effect page
+ * shows both, read in one query.
+ */
+export async function getEffectChanges(
+  db: Tx,
+  effectId: string,
+): Promise<{ updatedBy: { name: string | null; login: string } | null; profileChange: ProfileChangeView | null }> {
+  const updater = alias(users, "updater");
   const [row] = await db
     .select({
+      updaterName: updater.name,
+      updaterLogin: updater.login,
       profileId: effectProfileChanges.targetProfileId,
       profileName: effectProfileChanges.profileName,
       profileVersion: effectProfileChanges.profileVersion,
@@ -568,10 +583,21 @@ export async function getProfileChange(db: Tx, effectId: string): Promise<Profil
       changedAt: effectProfileChanges.changedAt,
       changedBy: sql<string | null>`coalesce(${users.name}, ${users.login})`,
     })
-    .from(effectProfileChanges)
+    .from(effects)
+    .leftJoin(updater, eq(updater.id, effects.updatedBy))
+    .leftJoin(effectProfileChanges, eq(effectProfileChanges.effectId, effects.id))
     .leftJoin(users, eq(users.id, effectProfileChanges.changedBy))
-    .where(eq(effectProfileChanges.effectId, effectId));
-  return row ?? null;
+    .where(eq(effects.id, effectId));
+  if (!row) return { updatedBy: null, profileChange: null };
+  const { updaterName, updaterLogin, profileName, profileVersion, effectVersion, changes, changedAt, ...change } = row;
+  return {
+    updatedBy: updaterLogin === null ? null : { name: updaterName, login: updaterLogin },
+    // Every column of a change row but the profile's id and who made it is NOT NULL: a null name means no row.
+    profileChange:
+      profileName === null || profileVersion === null || effectVersion === null || changes === null || changedAt === null
+        ? null
+        : { ...change, profileName, profileVersion, effectVersion, changes, changedAt },
+  };
 }
 
 /** The export options an effect exports with by default: its profile's (see exportDefaultsForProfile), else core's. */

@@ -16,7 +16,7 @@ import { formText, readForm } from "../http.server.ts";
 import { saveEffectBench } from "../models/effects.server.ts";
 import { DomainError } from "../models/errors.ts";
 import { listSprites } from "../models/sprites.server.ts";
-import { getProfileChange, listTargetProfiles } from "../models/targetProfiles.server.ts";
+import { getEffectChanges, listTargetProfiles } from "../models/targetProfiles.server.ts";
 import { displayName, getUser } from "../models/users.server.ts";
 import { hasRole } from "../roles.ts";
 
@@ -28,11 +28,10 @@ export const handle = { wide: true };
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { team, project, effect, role } = await requireEffectRole(request, params.effectId, "viewer");
   const saved = benchState(effect);
-  const [profiles, sprites, updatedBy, profileChange] = await Promise.all([
+  const [profiles, sprites, { updatedBy, profileChange }] = await Promise.all([
     listTargetProfiles(db(), team.id),
     listSprites(db(), project.id),
-    effect.updatedBy ? getUser(db(), effect.updatedBy) : null,
-    getProfileChange(db(), effect.id),
+    getEffectChanges(db(), effect.id),
   ]);
   // The sprite's version comes with the project's list, read before its picture is (as savedDiagnostics requires).
   const diagnostics = await savedDiagnostics(db(), effect, { spriteVersion: sprites.find((s) => s.id === effect.spriteId)?.version });

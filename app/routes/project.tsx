@@ -51,7 +51,7 @@ import {
   deleteEffect,
   duplicateEffect,
   getEffect,
-  listEffects,
+  listEffectsAndDeleted,
   renameEffect,
   restoreEffect,
 } from "../models/effects.server.ts";
@@ -64,9 +64,8 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.project
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { team, project, role } = await requireProjectRole(request, params.projectId, "viewer");
-  const [effects, deleted, profiles, sprites, activity] = await Promise.all([
-    listEffects(db(), project.id),
-    listEffects(db(), project.id, { deleted: true }),
+  const [{ live: effects, deleted }, profiles, sprites, activity] = await Promise.all([
+    listEffectsAndDeleted(db(), project.id),
     listTargetProfiles(db(), team.id, project.id),
     listSprites(db(), project.id),
     listProjectActivityPage(db(), { teamId: team.id, projectId: project.id }, 1, 12),
