@@ -3,7 +3,10 @@ import { makeEffect, makeProject, makeTeam, makeUser } from "../tests/factories.
 import { testDb } from "../tests/support/db.ts";
 import type { Role, User } from "./db/schema.ts";
 import { createGuards } from "./guards.server.ts";
-import { createDbSessionStorage } from "./sessions.server.ts";
+import { eq } from "drizzle-orm";
+import { sessions as sessionRows } from "./db/schema.ts";
+import { runWithRequest } from "./requestContext.server.ts";
+import { createDbSessionStorage, hashSessionId } from "./sessions.server.ts";
 
 const db = testDb();
 afterAll(() => db.$client.end());
@@ -118,5 +121,43 @@ describe("role guards", () => {
   it("checks sign-in before membership: a visitor is redirected, not told whether the thing exists", async () => {
     const w = await world();
     expect(await thrown(guards.requireProjectRole(await requestAs(null), w.project.id, "viewer"))).toMatchObject({ status: 302 });
+  });
+
+  it("reads the person with what it guards when the root and the route ask in the same turn, with the same answers", async () => {
+    const w = await world();
+    // As a page does: the root loader asks who is signed in, the route's loader guards, both in one request context.
+    const page = (request: Request, guard: () => Promise<unknown>) =>
+      runWithRequest({ id: "guards-test", method: "GET", path: "/", clientAddress: "127.0.0.1", startedAt: 0 }, () =>
+        Promise.allSettled([guards.getUserFromRequest(request), guard()]),
+      );
+    const asViewer = await requestAs(w.people.viewer);
+    const [root, route] = await page(asViewer, () => guards.requireEffectRole(asViewer, w.effect.id, "viewer"));
+    expect(root).toMatchObject({ status: "fulfilled", value: { id: w.people.viewer.id } });
+    expect(route).toMatchObject({
+      status: "fulfilled",
+      value: { role: "viewer", effect: { id: w.effect.id }, user: { id: w.people.viewer.id } },
+    });
+    const [, refused] = await page(asViewer, () => guards.requireProjectRole(asViewer, w.project.id, "editor"));
+    expect(refused).toMatchObject({ status: "rejected", reason: { init: { status: 403 } } });
+    const asStranger = await requestAs(w.stranger);
+    const [stranger, hidden] = await page(asStranger, () => guards.requireTeamRole(asStranger, w.team.id, "viewer"));
+    expect(stranger).toMatchObject({ status: "fulfilled", value: { id: w.stranger.id } });
+    expect(hidden).toMatchObject({ status: "rejected", reason: { init: { status: 404 } } });
+    const visitor = await requestAs(null);
+    const [nobody, redirected] = await page(visitor, () => guards.requireEffectRole(visitor, w.effect.id, "viewer"));
+    expect(nobody).toMatchObject({ status: "fulfilled", value: null });
+    expect(redirected).toMatchObject({ status: "rejected", reason: { status: 302 } });
+  });
+
+  it("treats an expired session as signed out, in the guard's own query too", async () => {
+    const w = await world();
+    const request = await requestAs(w.people.owner);
+    const id = (await sessions.getSession(request.headers.get("Cookie"))).id;
+    await db
+      .update(sessionRows)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(sessionRows.idHash, hashSessionId(id)));
+    expect(await thrown(guards.requireEffectRole(request, w.effect.id, "viewer"))).toMatchObject({ status: 302 });
+    expect(await thrown(guards.requireTeamRole(request, w.team.id, "viewer"))).toMatchObject({ status: 302 });
   });
 });

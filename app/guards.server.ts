@@ -3,13 +3,25 @@
  * Signed in but not a member: 404 (we do not confirm that the thing exists). A member whose role is
  * too low: 403. Each returns what the route needs next (the user, the team, the role…).
  */
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq, gt, sql } from "drizzle-orm";
 import { data, redirect, type SessionStorage } from "react-router";
 import type { Db } from "./db/client.server.ts";
-import { effects, memberships, projects, teams, type EffectRow, type Project, type Role, type Team, type User } from "./db/schema.ts";
+import {
+  effects,
+  memberships,
+  projects,
+  sessions,
+  teams,
+  users,
+  type EffectRow,
+  type Project,
+  type Role,
+  type Team,
+  type User,
+} from "./db/schema.ts";
 import { db } from "./db.server.ts";
 import { getUser } from "./models/users.server.ts";
-import { currentRequest } from "./requestContext.server.ts";
+import { currentRequest, type RequestInfo } from "./requestContext.server.ts";
 import { hasRole } from "./roles.ts";
 import { sessionStorage, type DbSessionStorage, type SessionData } from "./sessions.server.ts";
 
@@ -59,24 +71,48 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     return typeof userId === "string" ? getUser(deps.db, userId) : null;
   }
 
+  /**
+   * The request's memo of the session lookup for `cookie`. The lookup of its own starts a turn of the event loop
+   * later, so that a guard asking in the same turn (the route's loader runs beside the root's) can claim it and read
+   * the person in the same query as what it guards: one round trip fewer on every page behind a guard.
+   */
+  function memoOf(info: RequestInfo, cookie: string | null) {
+    const old = info.session;
+    if (old && old.cookie === cookie) return old as typeof old & { user: Promise<User | null> };
+    let settle!: (user: Promise<User | null>) => void;
+    let claimed = false;
+    const memo = {
+      cookie,
+      user: new Promise<User | null>((resolve) => (settle = resolve)),
+      claim: () => {
+        if (claimed) return null;
+        claimed = true;
+        return settle as (user: Promise<unknown>) => void;
+      },
+    };
+    // A failed lookup is answered by whoever awaits it; nobody may (a resource route has no root loader).
+    memo.user.catch(() => {});
+    setImmediate(() => memo.claim()?.(lookUpUser(cookie)));
+    info.session = memo;
+    return memo;
+  }
+
   /** The signed-in person, looked up once per request (the root and the route both ask), and noted for the log. */
   async function getUserFromRequest(request: Request): Promise<User | null> {
     const cookie = request.headers.get("Cookie");
     const info = currentRequest();
-    let user: Promise<User | null>;
-    if (info?.session && info.session.cookie === cookie) user = info.session.user as Promise<User | null>;
-    else {
-      user = lookUpUser(cookie);
-      if (info) info.session = { cookie, user };
-    }
-    const found = await user;
+    const found = await (info ? memoOf(info, cookie).user : lookUpUser(cookie));
     if (found && info) info.userId = found.id;
     return found;
   }
 
+  function signInFirst(request: Request): never {
+    throw redirect(`/sign-in?next=${encodeURIComponent(returnPath(request))}`);
+  }
+
   async function requireUser(request: Request): Promise<User> {
     const user = await getUserFromRequest(request);
-    if (!user) throw redirect(`/sign-in?next=${encodeURIComponent(returnPath(request))}`);
+    if (!user) signInFirst(request);
     return user;
   }
 
@@ -102,6 +138,64 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     .innerJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, sql.placeholder("userId"))))
     .where(eq(effects.id, sql.placeholder("id")))
     .prepare("skewsmith_guard_effect");
+
+  // The same, with the person read from the session in the same query (see memoOf): no row when the session is not a
+  // live one; a row without a role when the person is not a member or the thing is not there.
+  const liveSession = and(eq(sessions.idHash, sql.placeholder("idHash")), gt(sessions.expiresAt, sql`now()`));
+  const teamBySession = deps.db
+    .select({ user: users, team: teams, role: memberships.role })
+    .from(sessions)
+    .innerJoin(users, eq(users.id, sessions.userId))
+    .leftJoin(teams, eq(teams.id, sql.placeholder("id")))
+    .leftJoin(memberships, and(eq(memberships.teamId, teams.id), eq(memberships.userId, users.id)))
+    .where(liveSession)
+    .prepare("skewsmith_guard_team_session");
+  const projectBySession = deps.db
+    .select({ user: users, project: projects, team: teams, role: memberships.role })
+    .from(sessions)
+    .innerJoin(users, eq(users.id, sessions.userId))
+    .leftJoin(projects, eq(projects.id, sql.placeholder("id")))
+    .leftJoin(teams, eq(teams.id, projects.teamId))
+    .leftJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, users.id)))
+    .where(liveSession)
+    .prepare("skewsmith_guard_project_session");
+  const effectBySession = deps.db
+    .select({ user: users, effect: effects, project: projects, team: teams, role: memberships.role })
+    .from(sessions)
+    .innerJoin(users, eq(users.id, sessions.userId))
+    .leftJoin(effects, eq(effects.id, sql.placeholder("id")))
+    .leftJoin(projects, eq(projects.id, effects.projectId))
+    .leftJoin(teams, eq(teams.id, projects.teamId))
+    .leftJoin(memberships, and(eq(memberships.teamId, projects.teamId), eq(memberships.userId, users.id)))
+    .where(liveSession)
+    .prepare("skewsmith_guard_effect_session");
+
+  /**
+   * The person and the guarded row in one query, when the storage can and nobody has looked the person up yet for
+   * this request; null otherwise (the caller then checks the person first, the thing after). Not signed in: the
+   * redirect to sign-in, as requireUser, before anything about the thing is told.
+   */
+  async function bySession<Row extends { user: User }>(
+    request: Request,
+    id: string | undefined,
+    query: { execute(values: { id: string; idHash: string }): Promise<Row[]> },
+  ): Promise<Row | null> {
+    const storage = deps.sessions;
+    if (!isUuid(id) || !("sessionKey" in storage)) return null;
+    const cookie = request.headers.get("Cookie");
+    const info = currentRequest();
+    const settle = info ? memoOf(info, cookie).claim?.() : () => {};
+    if (!settle) return null;
+    const found = (async () => {
+      const idHash = await storage.sessionKey(cookie);
+      return idHash === null ? undefined : (await query.execute({ id, idHash }))[0];
+    })();
+    settle(found.then((row) => row?.user ?? null));
+    const row = await found;
+    if (!row) signInFirst(request);
+    if (info) info.userId = row.user.id;
+    return row;
+  }
 
   function check(role: Role | null, needed: Role): asserts role is Role {
     if (!role) notFound();
@@ -139,16 +233,37 @@ export function createGuards(deps: { db: Db; sessions: SessionStorage<SessionDat
     return { user, team: row.team, project: row.project, effect: row.effect, role: row.role };
   }
 
-  async function requireTeamRole(request: Request, teamId: string | undefined, needed: Role) {
-    return teamAccess(await requireUser(request), teamId, needed);
+  async function requireTeamRole(
+    request: Request,
+    teamId: string | undefined,
+    needed: Role,
+  ): Promise<{ user: User; team: Team; role: Role }> {
+    const row = await bySession(request, teamId, teamBySession);
+    if (!row) return teamAccess(await requireUser(request), teamId, needed);
+    check(row.role, needed);
+    return { user: row.user, team: row.team!, role: row.role };
   }
 
-  async function requireProjectRole(request: Request, projectId: string | undefined, needed: Role) {
-    return projectAccess(await requireUser(request), projectId, needed);
+  async function requireProjectRole(
+    request: Request,
+    projectId: string | undefined,
+    needed: Role,
+  ): Promise<{ user: User; team: Team; project: Project; role: Role }> {
+    const row = await bySession(request, projectId, projectBySession);
+    if (!row) return projectAccess(await requireUser(request), projectId, needed);
+    check(row.role, needed);
+    return { user: row.user, team: row.team!, project: row.project!, role: row.role };
   }
 
-  async function requireEffectRole(request: Request, effectId: string | undefined, needed: Role) {
-    return effectAccess(await requireUser(request), effectId, needed);
+  async function requireEffectRole(
+    request: Request,
+    effectId: string | undefined,
+    needed: Role,
+  ): Promise<{ user: User; team: Team; project: Project; effect: EffectRow; role: Role }> {
+    const row = await bySession(request, effectId, effectBySession);
+    if (!row) return effectAccess(await requireUser(request), effectId, needed);
+    check(row.role, needed);
+    return { user: row.user, team: row.team!, project: row.project!, effect: row.effect!, role: row.role };
   }
 
   return {

@@ -19,8 +19,11 @@ export interface RequestInfo {
   readonly startedAt: number;
   /** The signed-in person, once a guard has looked them up. */
   userId?: string;
-  /** Memo of the session lookup for this request's Cookie header, so the root and the route share one lookup. */
-  session?: { cookie: string | null; user: Promise<unknown> };
+  /**
+   * Memo of the session lookup for this request's Cookie header, so the root and the route share one lookup;
+   * `claim` lets a guard that reads the person together with what it guards settle it (app/guards.server.ts).
+   */
+  session?: { cookie: string | null; user: Promise<unknown>; claim?: () => ((user: Promise<unknown>) => void) | null };
 }
 
 // One store for the whole process, shared by the server module and the app bundle (which may be loaded apart, as

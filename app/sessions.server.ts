@@ -66,6 +66,8 @@ export function verifiedId(cookieHeader: string, name: string, keys: Buffer[]): 
 export type DbSessionStorage = SessionStorage<SessionData> & {
   /** The person whose live session the Cookie header carries, or null: one signature check and one query. */
   readUser(cookieHeader: string | null): Promise<User | null>;
+  /** The table key (hashed id) of the session a Cookie header carries, signature checked; null when it carries none. */
+  sessionKey(cookieHeader: string | null): Promise<string | null>;
 };
 
 export function createDbSessionStorage(database: Db, options: { secrets: string[]; secure: boolean }): DbSessionStorage {
@@ -122,16 +124,21 @@ export function createDbSessionStorage(database: Db, options: { secrets: string[
     },
   });
   const keys = options.secrets.map((secret) => Buffer.from(secret, "utf8"));
-  async function readUser(cookieHeader: string | null): Promise<User | null> {
+  async function sessionKey(cookieHeader: string | null): Promise<string | null> {
     if (!cookieHeader) return null;
     const fast = verifiedId(cookieHeader, cookie.name, keys);
     if (fast === null) return null; // a bad signature
     const id: unknown = fast ?? (await cookie.parse(cookieHeader));
     if (typeof id !== "string" || id.length === 0) return null;
-    const [row] = await userBySession.execute({ idHash: hashSessionId(id) });
+    return hashSessionId(id);
+  }
+  async function readUser(cookieHeader: string | null): Promise<User | null> {
+    const idHash = await sessionKey(cookieHeader);
+    if (idHash === null) return null;
+    const [row] = await userBySession.execute({ idHash });
     return row?.user ?? null;
   }
-  return Object.assign(storage, { readUser });
+  return Object.assign(storage, { readUser, sessionKey });
 }
 
 let storage: DbSessionStorage | undefined;
