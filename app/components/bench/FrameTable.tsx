@@ -1,5 +1,5 @@
 /** The per-frame table: angles, flip, coefficients, errors, wrapped, clipped, saturated, key pixels; sortable, a row jumps there. */
-import { memo, useEffect, useMemo, useRef, useState } from "react";
+import { memo, useEffect, useMemo, useRef, useState, useSyncExternalStore } from "react";
 import type { FrameRow } from "../../bench/engine.ts";
 
 type SortKey = "index" | "written" | "alpha" | "beta" | "maxErrorPx" | "meanErrorPx" | "wrapped" | "clipped" | "keyMaxErrorPx" | "keyApart";
@@ -34,6 +34,9 @@ const KEY_COLUMNS: typeof COLUMNS = [
  * was most of an effect page's rendering time, for rows nobody sees before the page is live.
  */
 export const FIRST_ROWS = 20;
+const NO_SUBSCRIPTION = () => () => {};
+const LIVE = () => true;
+const NOT_LIVE = () => false;
 
 function troubled(row: FrameRow): boolean {
   return row.wrapped > 0 || row.clipped > 0 || row.saturated;
@@ -118,8 +121,8 @@ export function FrameTable({
     return [...rows].sort((a, b) => (((a[k] ?? -1) as number) - ((b[k] ?? -1) as number)) * sort.dir || a.index - b.index);
   }, [rows, sort]);
   const body = useRef<HTMLDivElement>(null);
-  const [live, setLive] = useState(false);
-  useEffect(() => setLive(true), []);
+  // False on the server and while the browser hydrates the server's rows; true right after, and on a page drawn in the browser.
+  const live = useSyncExternalStore(NO_SUBSCRIPTION, LIVE, NOT_LIVE);
   const shown = live || sorted.length <= FIRST_ROWS ? sorted : sorted.slice(0, FIRST_ROWS);
 
   useEffect(() => {
