@@ -62,3 +62,18 @@ export function createDb(url: string, options: { max?: number } = {}): Db {
 
 /** A client or an open transaction: data functions accept either, so callers can group them. */
 export type Tx = Db | Parameters<Parameters<Db["transaction"]>[0]>[0];
+
+const preparedQueries = new WeakMap<object, Map<string, unknown>>();
+
+/**
+ * A query of `db` made and prepared once under `name` (`make` ends in Drizzle's `.prepare(name)` with placeholders):
+ * Drizzle then builds its SQL once instead of on every call, and PostgreSQL plans it once per connection. For the
+ * queries every page runs; a transaction gets its own.
+ */
+export function preparedOnce<T>(db: Tx, name: string, make: (db: Tx) => T): T {
+  let byName = preparedQueries.get(db);
+  if (!byName) preparedQueries.set(db, (byName = new Map()));
+  let query = byName.get(name) as T | undefined;
+  if (query === undefined) byName.set(name, (query = make(db)));
+  return query;
+}

@@ -1,7 +1,7 @@
 import { checkEffect, decodePng, EffectError, type Effect } from "@skewsmith/core";
 import { applyProfileToDocument } from "../profiles/apply.ts";
 import { and, asc, desc, eq, isNotNull, isNull, ne, sql } from "drizzle-orm";
-import type { Tx } from "../db/client.server.ts";
+import { preparedOnce, type Tx } from "../db/client.server.ts";
 import { effects, projects, sprites, targetProfiles, users, type EffectRow } from "../db/schema.ts";
 import { newEffectDocument } from "../effects/settings.ts";
 import { NAME_MAX } from "../forms.ts";
@@ -358,25 +358,29 @@ export async function listEffects(db: Tx, projectId: string, options: { deleted?
  * page shows, in one round trip instead of two.
  */
 export async function listEffectsAndDeleted(db: Tx, projectId: string): Promise<{ live: EffectListItem[]; deleted: EffectListItem[] }> {
-  const rows = await db
-    .select({
-      id: effects.id,
-      name: effects.name,
-      description: effects.description,
-      version: effects.version,
-      document: effects.document,
-      targetProfileName: targetProfiles.name,
-      spriteName: sprites.name,
-      updatedAt: effects.updatedAt,
-      updatedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
-      deletedAt: effects.deletedAt,
-    })
-    .from(effects)
-    .leftJoin(targetProfiles, eq(targetProfiles.id, effects.targetProfileId))
-    .leftJoin(sprites, eq(sprites.id, effects.spriteId))
-    .leftJoin(users, eq(users.id, effects.updatedBy))
-    .where(eq(effects.projectId, projectId))
-    .orderBy(asc(sql`lower(${effects.name})`));
+  const query = preparedOnce(db, "skewsmith_effects_of_project", (d) =>
+    d
+      .select({
+        id: effects.id,
+        name: effects.name,
+        description: effects.description,
+        version: effects.version,
+        document: effects.document,
+        targetProfileName: targetProfiles.name,
+        spriteName: sprites.name,
+        updatedAt: effects.updatedAt,
+        updatedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
+        deletedAt: effects.deletedAt,
+      })
+      .from(effects)
+      .leftJoin(targetProfiles, eq(targetProfiles.id, effects.targetProfileId))
+      .leftJoin(sprites, eq(sprites.id, effects.spriteId))
+      .leftJoin(users, eq(users.id, effects.updatedBy))
+      .where(eq(effects.projectId, sql.placeholder("projectId")))
+      .orderBy(asc(sql`lower(${effects.name})`))
+      .prepare("skewsmith_effects_of_project"),
+  );
+  const rows = await query.execute({ projectId });
   return {
     live: rows.filter((r) => r.deletedAt === null),
     deleted: rows.filter((r) => r.deletedAt !== null).sort((a, b) => b.deletedAt!.getTime() - a.deletedAt!.getTime()),

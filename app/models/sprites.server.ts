@@ -6,7 +6,7 @@
  */
 import { decodePng, type Image } from "@skewsmith/core";
 import { and, asc, eq, inArray, isNotNull, sql } from "drizzle-orm";
-import type { Tx } from "../db/client.server.ts";
+import { preparedOnce, type Tx } from "../db/client.server.ts";
 import { effects, sprites, targetProfiles, users, type EffectRow, type Sprite, type SpriteKind } from "../db/schema.ts";
 import { insideCanvas, spritePlacement } from "../effects/placement.ts";
 import { spriteColours, tooManyColours } from "../sprites/colours.ts";
@@ -331,28 +331,32 @@ export interface SpriteListItem {
 
 /** A project's sprites, by name, without their bytes, each with the effects that use it: one query (pages show it). */
 export async function listSprites(db: Tx, projectId: string): Promise<SpriteListItem[]> {
-  const usedBy = sql<SpriteUse[]>`coalesce((
-    select json_agg(json_build_object('id', e.id, 'name', e.name, 'deleted', e.deleted_at is not null) order by lower(e.name), e.id)
-    from ${effects} e where e.sprite_id = ${sprites.id}), '[]'::json)`;
-  const rows = await db
-    .select({
-      id: sprites.id,
-      name: sprites.name,
-      kind: sprites.kind,
-      width: sprites.width,
-      height: sprites.height,
-      palette: sprites.palette,
-      byteSize: sprites.byteSize,
-      version: sprites.version,
-      uploadedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
-      createdAt: sprites.createdAt,
-      updatedAt: sprites.updatedAt,
-      usedBy,
-    })
-    .from(sprites)
-    .leftJoin(users, eq(users.id, sprites.uploadedBy))
-    .where(eq(sprites.projectId, projectId))
-    .orderBy(asc(sql`lower(${sprites.name})`));
+  const query = preparedOnce(db, "skewsmith_sprites_of_project", (d) => {
+    const usedBy = sql<SpriteUse[]>`coalesce((
+      select json_agg(json_build_object('id', e.id, 'name', e.name, 'deleted', e.deleted_at is not null) order by lower(e.name), e.id)
+      from ${effects} e where e.sprite_id = ${sprites.id}), '[]'::json)`;
+    return d
+      .select({
+        id: sprites.id,
+        name: sprites.name,
+        kind: sprites.kind,
+        width: sprites.width,
+        height: sprites.height,
+        palette: sprites.palette,
+        byteSize: sprites.byteSize,
+        version: sprites.version,
+        uploadedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
+        createdAt: sprites.createdAt,
+        updatedAt: sprites.updatedAt,
+        usedBy,
+      })
+      .from(sprites)
+      .leftJoin(users, eq(users.id, sprites.uploadedBy))
+      .where(eq(sprites.projectId, sql.placeholder("projectId")))
+      .orderBy(asc(sql`lower(${sprites.name})`))
+      .prepare("skewsmith_sprites_of_project");
+  });
+  const rows = await query.execute({ projectId });
   return rows.map((r) => ({ ...r, colours: r.palette.length }));
 }
 

@@ -2,7 +2,7 @@ import { decodePng, EffectError, ExportOptionError, resolveExportOptions, type E
 import { and, asc, count, eq, inArray, isNull, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { z } from "zod";
-import type { Tx } from "../db/client.server.ts";
+import { preparedOnce, type Tx } from "../db/client.server.ts";
 import {
   effectProfileChanges,
   effects,
@@ -171,14 +171,19 @@ export interface TargetProfileListItem extends TargetProfile {
 
 /** A team's target profiles, by name, with how many live effects use each (in one project when given). */
 export async function listTargetProfiles(db: Tx, teamId: string, projectId?: string): Promise<TargetProfileListItem[]> {
-  const used = projectId
-    ? sql<number>`(select count(*)::int from ${effects} e where e.target_profile_id = "target_profiles"."id" and e.deleted_at is null and e.project_id = ${projectId})`
-    : sql<number>`(select count(*)::int from ${effects} e join ${projects} p on p.id = e.project_id where e.target_profile_id = "target_profiles"."id" and e.deleted_at is null and p.archived_at is null)`;
-  const rows = await db
-    .select({ profile: targetProfiles, effectCount: used })
-    .from(targetProfiles)
-    .where(eq(targetProfiles.teamId, teamId))
-    .orderBy(asc(sql`lower(${targetProfiles.name})`));
+  const name = projectId ? "skewsmith_profiles_of_project" : "skewsmith_profiles_of_team";
+  const query = preparedOnce(db, name, (d) => {
+    const used = projectId
+      ? sql<number>`(select count(*)::int from ${effects} e where e.target_profile_id = "target_profiles"."id" and e.deleted_at is null and e.project_id = ${sql.placeholder("projectId")})`
+      : sql<number>`(select count(*)::int from ${effects} e join ${projects} p on p.id = e.project_id where e.target_profile_id = "target_profiles"."id" and e.deleted_at is null and p.archived_at is null)`;
+    return d
+      .select({ profile: targetProfiles, effectCount: used })
+      .from(targetProfiles)
+      .where(eq(targetProfiles.teamId, sql.placeholder("teamId")))
+      .orderBy(asc(sql`lower(${targetProfiles.name})`))
+      .prepare(name);
+  });
+  const rows = await query.execute(projectId ? { teamId, projectId } : { teamId });
   return rows.map((r) => ({ ...r.profile, effectCount: r.effectCount }));
 }
 
@@ -570,24 +575,28 @@ export async function getEffectChanges(
   db: Tx,
   effectId: string,
 ): Promise<{ updatedBy: { name: string | null; login: string } | null; profileChange: ProfileChangeView | null }> {
-  const updater = alias(users, "updater");
-  const [row] = await db
-    .select({
-      updaterName: updater.name,
-      updaterLogin: updater.login,
-      profileId: effectProfileChanges.targetProfileId,
-      profileName: effectProfileChanges.profileName,
-      profileVersion: effectProfileChanges.profileVersion,
-      effectVersion: effectProfileChanges.effectVersion,
-      changes: effectProfileChanges.changes,
-      changedAt: effectProfileChanges.changedAt,
-      changedBy: sql<string | null>`coalesce(${users.name}, ${users.login})`,
-    })
-    .from(effects)
-    .leftJoin(updater, eq(updater.id, effects.updatedBy))
-    .leftJoin(effectProfileChanges, eq(effectProfileChanges.effectId, effects.id))
-    .leftJoin(users, eq(users.id, effectProfileChanges.changedBy))
-    .where(eq(effects.id, effectId));
+  const query = preparedOnce(db, "skewsmith_effect_changes", (d) => {
+    const updater = alias(users, "updater");
+    return d
+      .select({
+        updaterName: updater.name,
+        updaterLogin: updater.login,
+        profileId: effectProfileChanges.targetProfileId,
+        profileName: effectProfileChanges.profileName,
+        profileVersion: effectProfileChanges.profileVersion,
+        effectVersion: effectProfileChanges.effectVersion,
+        changes: effectProfileChanges.changes,
+        changedAt: effectProfileChanges.changedAt,
+        changedBy: sql<string | null>`coalesce(${users.name}, ${users.login})`,
+      })
+      .from(effects)
+      .leftJoin(updater, eq(updater.id, effects.updatedBy))
+      .leftJoin(effectProfileChanges, eq(effectProfileChanges.effectId, effects.id))
+      .leftJoin(users, eq(users.id, effectProfileChanges.changedBy))
+      .where(eq(effects.id, sql.placeholder("effectId")))
+      .prepare("skewsmith_effect_changes");
+  });
+  const [row] = await query.execute({ effectId });
   if (!row) return { updatedBy: null, profileChange: null };
   const { updaterName, updaterLogin, profileName, profileVersion, effectVersion, changes, changedAt, ...change } = row;
   return {
