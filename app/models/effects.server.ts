@@ -329,21 +329,24 @@ export interface EffectListItem {
   deletedAt: Date | null;
 }
 
+/** The columns of an effect in a project's list (both queries below). */
+const effectListColumns = {
+  id: effects.id,
+  name: effects.name,
+  description: effects.description,
+  version: effects.version,
+  document: effects.document,
+  targetProfileName: targetProfiles.name,
+  spriteName: sprites.name,
+  updatedAt: effects.updatedAt,
+  updatedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
+  deletedAt: effects.deletedAt,
+};
+
 /** A project's live (or deleted) effects, by name (deleted ones newest first). */
 export async function listEffects(db: Tx, projectId: string, options: { deleted?: boolean } = {}): Promise<EffectListItem[]> {
   const rows = await db
-    .select({
-      id: effects.id,
-      name: effects.name,
-      description: effects.description,
-      version: effects.version,
-      document: effects.document,
-      targetProfileName: targetProfiles.name,
-      spriteName: sprites.name,
-      updatedAt: effects.updatedAt,
-      updatedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
-      deletedAt: effects.deletedAt,
-    })
+    .select(effectListColumns)
     .from(effects)
     .leftJoin(targetProfiles, eq(targetProfiles.id, effects.targetProfileId))
     .leftJoin(sprites, eq(sprites.id, effects.spriteId))
@@ -360,18 +363,7 @@ export async function listEffects(db: Tx, projectId: string, options: { deleted?
 export async function listEffectsAndDeleted(db: Tx, projectId: string): Promise<{ live: EffectListItem[]; deleted: EffectListItem[] }> {
   const query = preparedOnce(db, "skewsmith_effects_of_project", (d) =>
     d
-      .select({
-        id: effects.id,
-        name: effects.name,
-        description: effects.description,
-        version: effects.version,
-        document: effects.document,
-        targetProfileName: targetProfiles.name,
-        spriteName: sprites.name,
-        updatedAt: effects.updatedAt,
-        updatedByName: sql<string | null>`coalesce(${users.name}, ${users.login})`,
-        deletedAt: effects.deletedAt,
-      })
+      .select(effectListColumns)
       .from(effects)
       .leftJoin(targetProfiles, eq(targetProfiles.id, effects.targetProfileId))
       .leftJoin(sprites, eq(sprites.id, effects.spriteId))
