@@ -30,9 +30,7 @@ function rendererFor(width: number, height: number, kind: Image["kind"]): Render
  * straight into the caller's buffer through the shared loop (bench/renderImage.bench.ts).
  */
 export function renderImage(image: Image, frame: FrameShifts, geometry: RenderGeometry, pass: PassNumber = 3, out?: Uint8Array): Image {
-  const { width, height } = geometry.canvas;
-  if (image.width !== width || image.height !== height)
-    throw new RangeError(`image: ${image.width}×${image.height} pixels; must equal the canvas, ${width}×${height}`);
+  checkCanvas(image, geometry);
   if (out !== undefined && out.length !== image.data.length)
     throw new RangeError(`out: ${out.length} bytes, expected ${image.data.length} (the image's)`);
   if (
@@ -42,14 +40,40 @@ export function renderImage(image: Image, frame: FrameShifts, geometry: RenderGe
     image.data.byteOffset < out.byteOffset + out.byteLength
   )
     throw new RangeError("out: shares memory with the source image; the result needs a buffer of its own");
-  const renderer = rendererFor(width, height, image.kind);
+  const bytes = renderedBytes(image, frame, geometry, pass);
+  const data = out ?? new Uint8Array(bytes.length);
+  data.set(bytes);
+  return withData(image, data);
+}
+
+/**
+ * renderImage without the copy: the result's pixels are the kept renderer's own plane, valid only until the next
+ * renderImage or renderImageView of the same canvas size and kind. For a caller that uses the frame at once and keeps
+ * nothing of it (the command line encodes it and exits): on a 1920 × 1080 RGBA frame the copy into a new buffer cost
+ * about as much as the column pass, most of it the first touches of the new buffer's pages.
+ */
+export function renderImageView(image: Image, frame: FrameShifts, geometry: RenderGeometry, pass: PassNumber = 3): Image {
+  checkCanvas(image, geometry);
+  return withData(image, renderedBytes(image, frame, geometry, pass));
+}
+
+function checkCanvas(image: Image, geometry: RenderGeometry): void {
+  const { width, height } = geometry.canvas;
+  if (image.width !== width || image.height !== height)
+    throw new RangeError(`image: ${image.width}×${image.height} pixels; must equal the canvas, ${width}×${height}`);
+}
+
+function withData(image: Image, data: Uint8Array): Image {
+  return image.kind === "indexed" ? { ...image, data } : { kind: "rgba", width: image.width, height: image.height, data };
+}
+
+/** The frame drawn on the kept renderer's own planes, as bytes over the plane it ends on. */
+function renderedBytes(image: Image, frame: FrameShifts, geometry: RenderGeometry, pass: PassNumber): Uint8Array {
+  const renderer = rendererFor(image.width, image.height, image.kind);
   const src = imagePlane(image);
   const plane =
     image.kind === "indexed"
       ? (renderer as Renderer<Uint8Array>).render(src as Uint8Array, frame, geometry, pass)
       : (renderer as Renderer<Uint32Array>).render(src as Uint32Array, frame, geometry, pass);
-  const bytes = new Uint8Array(plane.buffer, plane.byteOffset, plane.byteLength);
-  const data = out ?? new Uint8Array(bytes.length);
-  data.set(bytes);
-  return image.kind === "indexed" ? { ...image, data } : { kind: "rgba", width, height, data };
+  return new Uint8Array(plane.buffer, plane.byteOffset, plane.byteLength);
 }

@@ -4,6 +4,7 @@ import sharp, { type PngOptions } from "sharp";
 import { describe, expect, it } from "vitest";
 import * as baseline from "../bench/baseline/png.ts";
 import { PngError, decodePng, encodePng, pngHeader, type Image, type IndexedImage, type Rgba, type RgbaImage } from "../src/index.ts";
+import { decodePngInJs } from "../src/png.ts";
 import { pngBytes, pngChunks } from "./helpers/pngBytes.ts";
 
 /** Decodes a PNG with sharp (libvips/libspng), an outside reader, to RGBA bytes. */
@@ -224,6 +225,10 @@ describe("decodePng reads what outside readers read", () => {
       expect(decodePng(png), name).toEqual(baseline.decodePng(png));
     }
   });
+
+  it("every form sharp writes reads the same through Node's zlib and through fflate in JavaScript", async () => {
+    for (const [name, png] of await sharpForms(37, 23)) expect(decodePngInJs(png), name).toEqual(decodePng(png));
+  });
 });
 
 describe("encodePng writes the same bytes as the earlier writer (fast-png's encoder with its tRNS fixed)", () => {
@@ -306,7 +311,10 @@ function ihdr(width: number, height: number, depth: number, colorType: number, i
   return ["IHDR", b];
 }
 
-describe("hostile PNGs are refused with a PngError and a clear message, before their image data is inflated", () => {
+describe.each([
+  ["Node's zlib (the command line, the app's server)", decodePng],
+  ["fflate in JavaScript (a platform without Node's zlib)", decodePngInJs],
+])("hostile PNGs are refused with a PngError and a clear message, before their image data is inflated: %s", (_, decodePng) => {
   const good = encodePng({ kind: "rgba", width: 20, height: 10, data: Uint8Array.from({ length: 800 }, (_, i) => i & 255) });
 
   it("every truncation of a valid file, at any byte, is a PngError (never another error, never a picture)", () => {

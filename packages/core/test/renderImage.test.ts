@@ -12,6 +12,7 @@ import {
   type Rgba,
   type RgbaImage,
 } from "../src/index.ts";
+import { renderImageView } from "../src/renderImage.ts";
 import { idealCentre } from "./helpers/reference.ts";
 
 const palette: Rgba[] = [
@@ -225,6 +226,22 @@ describe("renderImage into a caller's buffer, with its renderers kept across cal
     }
     expect(Array.from(renderImage(rgba, frames[2], effect).data)).toEqual(first);
     expect(first).toEqual(expectedFor(frames[2], 3));
+  });
+
+  it("renderImageView draws the same pixels without a copy, on a plane that the next call of that size reuses", () => {
+    for (const f of frames)
+      for (const pass of [1, 2, 3] as const) {
+        const view = renderImageView(rgba, f, effect, pass);
+        expect(view.kind).toBe("rgba");
+        expect(Array.from(view.data)).toEqual(expectedFor(f, pass));
+      }
+    const first = renderImageView(rgba, frames[0], effect);
+    const kept = Array.from(first.data);
+    renderImageView(rgba, frames[1], effect);
+    expect(Array.from(first.data)).not.toEqual(kept); // valid until the next call only, as documented
+    expect(() =>
+      renderImageView(rgba, frames[0], parseEffect({ canvas: { width: 3, height: 3 }, pivot: { x: 1, y: 1 }, angles: { list: [0] } })),
+    ).toThrow("image: 33×21 pixels; must equal the canvas, 3×3");
   });
 });
 
