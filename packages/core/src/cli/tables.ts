@@ -1,5 +1,5 @@
 import { parseCommandArgs } from "./args.ts";
-import type { Command } from "./io.ts";
+import { prepareDiagnostics, type Command } from "./io.ts";
 
 /** `skewsmith tables EFFECT.json`: prints the tables document (spec §8) as one JSON object. */
 export const tablesCommand: Command = {
@@ -17,8 +17,13 @@ options:
 `,
   async run(args, io) {
     const { positionals, values } = parseCommandArgs(args, { pretty: { type: "boolean" } });
-    // The work is loaded when a command runs, so that --help and --version start at once.
-    const [{ readEffectFile }, { tablesText }] = await Promise.all([import("./readEffectFile.ts"), import("../tablesDocument.ts")]);
+    // The work is loaded when a command runs, so that --help and --version start at once; a large track's diagnostics
+    // workers start first, to load beside the rest.
+    const [{ readEffectFile }, { tablesText }] = await Promise.all([
+      import("./readEffectFile.ts"),
+      import("../tablesDocument.ts"),
+      prepareDiagnostics(positionals[0], io),
+    ]);
     const effect = await readEffectFile(positionals[0], io);
     io.stdout(tablesText(effect, { pretty: values.pretty }));
     return 0;

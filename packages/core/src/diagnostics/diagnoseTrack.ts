@@ -26,6 +26,29 @@ export interface DiagnoseOptions {
 }
 
 /**
+ * Starts the worker threads that diagnoseTrack will spread a track of `frames` frames of `pixels` canvas pixels over, if
+ * it will: a worker takes about a tenth of a second to load, which it can spend beside the caller's reading and
+ * compiling instead of after them. `workers` as in DiagnoseOptions; a small track starts none.
+ */
+export function prepareWorkers(frames: number, pixels: number, workers: number = defaultWorkers()): void {
+  if (workers > 0 && frames > 1 && frames * pixels >= POOL_MIN_CHECKS) nodePool()?.grow(workers);
+}
+
+/**
+ * Like prepareWorkers, for an effect document not yet validated (the JSON an effect file holds, or anything else): reads
+ * only the canvas size and the frame count, and starts nothing when they are missing or not numbers.
+ */
+export function prepareWorkersFor(json: unknown): void {
+  const doc = json as { canvas?: { width?: unknown; height?: unknown }; angles?: { list?: unknown; sweep?: { frames?: unknown } } };
+  const width = doc?.canvas?.width;
+  const height = doc?.canvas?.height;
+  const list = doc?.angles?.list;
+  const frames = Array.isArray(list) ? list.length : doc?.angles?.sweep?.frames;
+  if (typeof width === "number" && typeof height === "number" && typeof frames === "number" && Number.isSafeInteger(frames))
+    prepareWorkers(frames, width * height);
+}
+
+/**
  * The diagnostics (spec §6) of every frame of a compiled track, in frame order: on the calling thread, or for a large
  * track spread over worker threads as well (./nodePool.ts). Either way each frame's figures are the same bits.
  */

@@ -143,8 +143,8 @@ export class DiagnosticsPool {
     this.b = b;
   }
 
-  /** Starts workers until `count` are alive (never more than asked for). */
-  private grow(count: number): void {
+  /** Starts workers until `count` are alive (never more than asked for); they load while the caller does other work. */
+  grow(count: number): void {
     const alive = this.workers.filter((w) => !w.dead);
     for (let i = alive.length; i < count; i++) {
       const { port1, port2 } = new this.b.threads.MessageChannel();
