@@ -1,4 +1,6 @@
-import { compileShifts, compileTables } from "../compileTables.ts";
+import { compileShifts, type CompiledTables, type FrameTables } from "../compileTables.ts";
+import { beginDiagnoseTrack } from "../diagnostics/diagnoseTrack.ts";
+import type { FrameDiagnostics } from "../frameDiagnostics.ts";
 import type { Effect } from "../effect.ts";
 import { armSource } from "./arm.ts";
 import { binaryExport } from "./binary.ts";
@@ -85,6 +87,11 @@ export function outputTexts(layout: ExportLayout, json: () => string, onOutput?:
   return files;
 }
 
+/** Compiled tables with each frame's diagnostics added: what compileTables returns. */
+function withDiagnostics(tables: CompiledTables<FrameTables>, diagnostics: readonly FrameDiagnostics[]): CompiledTables {
+  return { effect: tables.effect, elementType: tables.elementType, frames: tables.frames.map((f, i) => ({ ...f, ...diagnostics[i] })) };
+}
+
 /**
  * Makes the export bundle of a validated effect: README.txt, the chosen outputs (C, four assembler dialects, raw
  * binaries, tables document, run-time routine) and the effect document, as files and as one zip. `options.name` is the
@@ -97,20 +104,29 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, o
   const total = resolved.outputs.length + 1;
   let done = 0;
   const step = (name: string) => onProgress?.(++done, total, name);
-  const full = resolved.outputs.includes("json") ? compileTables(effect) : null;
-  const tables = full ?? compileShifts(effect);
+  const tables = compileShifts(effect);
   step("tables");
   const budget = budgetFromTables(tables, resolved);
   if (budget.totalBytes > EXPORT_MAX_BYTES)
     throw new RangeError(
       `export: ${budget.totalBytes} bytes of tables is more than the ${EXPORT_MAX_BYTES} a bundle may hold (32 MiB, the largest cartridge ROM of the targets); use dedupe or half tables, fewer frames or a smaller canvas`,
     );
-  const layout = layoutFromTables(tables, resolved);
-  const outputs = outputTexts(
-    layout,
-    () => tablesJson(full ?? compileTables(effect)),
-    (output) => step(output),
-  );
+  // Only the tables document carries diagnostics. A large track's are measured on worker threads while this thread
+  // writes the other outputs, and collected when the document is written (outputs come in EXPORT_OUTPUTS order, the
+  // document after every table file).
+  const diagnostics = resolved.outputs.includes("json") ? beginDiagnoseTrack(effect, tables.frames) : null;
+  let layout: ExportLayout;
+  let outputs: BundleFile[];
+  try {
+    layout = layoutFromTables(tables, resolved);
+    outputs = outputTexts(
+      layout,
+      () => tablesJson(withDiagnostics(tables, diagnostics!.finish())),
+      (output) => step(output),
+    );
+  } finally {
+    diagnostics?.cancel();
+  }
   const enc = new TextEncoder();
   const [readmeName, effectName] = alwaysFiles(layout.label);
   const effectText = `${JSON.stringify(effect, null, 2)}\n`;
