@@ -68,6 +68,14 @@ function tableLines(dialect: AsmDialect, layout: ExportLayout, t: LayoutTable): 
 
 /** Prints an export layout as one assembler source file in the given dialect: header, constants, exported labels, tables. */
 export function assemblySource(layout: ExportLayout, dialect: AsmDialect): string {
+  return assemblyLines(layout, dialect).join("\n");
+}
+
+/**
+ * assemblySource as pieces to join with "\n" (a piece may hold several lines): frames that share a row share one
+ * piece, so a zip can encode the file from them without building the whole text first.
+ */
+export function assemblyLines(layout: ExportLayout, dialect: AsmDialect): string[] {
   const c = dialect.comment;
   const comment = (lines: readonly string[]) => lines.map((l) => (l ? `${c} ${l}` : c));
   const lines = [
@@ -85,5 +93,5 @@ export function assemblySource(layout: ExportLayout, dialect: AsmDialect): strin
   lines.push("", `${INDENT}${dialect.section}`);
   for (const t of layout.tables) lines.push("", ...tableLines(dialect, layout, t));
   lines.push("");
-  return lines.join("\n");
+  return lines;
 }

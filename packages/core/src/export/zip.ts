@@ -43,16 +43,48 @@ function zipCodec(): ZipCodec {
   return codec;
 }
 
+/** A text file's content as pieces to join with `separator`: a zip encodes it from them without joining them first. */
+export interface TextPieces {
+  readonly pieces: readonly string[];
+  readonly separator: string;
+}
+
+/** One file to zip: its name and bytes, or its text as pieces (then its bytes are not read). */
+export interface ZipSource {
+  readonly name: string;
+  readonly bytes: Uint8Array;
+  readonly pieces?: TextPieces;
+}
+
+/** UTF-16 code units of a text given as pieces; its UTF-8 takes at most three bytes for each. */
+function codeUnits({ pieces, separator }: TextPieces): number {
+  let n = separator.length * Math.max(0, pieces.length - 1);
+  for (const p of pieces) n += p.length;
+  return n;
+}
+
 /**
  * A zip archive of the files, in order, deflated at level 1 and dated `mtime`, so that the same files give the same
  * bytes; the container is fflate's (local headers with data descriptors, then the central directory).
+ *
+ * A text given as pieces is encoded (UTF-8, as TextEncoder does) into one buffer that every such file reuses, then
+ * checksummed and deflated from there: on a machine that pays dearly for fresh memory pages, encoding 90 MB of text
+ * into new arrays cost more than deflating it (bench/cli.bench.ts).
  */
-export function zipArchive(
-  files: readonly { readonly name: string; readonly bytes: Uint8Array }[],
-  mtime: Date,
-  using: ZipCodec = zipCodec(),
-): Uint8Array {
+export function zipArchive(files: readonly ZipSource[], mtime: Date, using: ZipCodec = zipCodec()): Uint8Array {
   const { deflateRaw, crc32: crc } = using;
+  let largest = 0;
+  for (const f of files) if (f.pieces) largest = Math.max(largest, codeUnits(f.pieces));
+  const scratch = new Uint8Array(largest * 3);
+  const encoder = new TextEncoder();
+  const encode = ({ pieces, separator }: TextPieces): Uint8Array => {
+    let at = 0;
+    for (let i = 0; i < pieces.length; i++) {
+      if (i > 0) at += encoder.encodeInto(separator, scratch.subarray(at)).written;
+      at += encoder.encodeInto(pieces[i], scratch.subarray(at)).written;
+    }
+    return scratch.subarray(0, at);
+  };
   const chunks: Uint8Array[] = [];
   let failure: Error | null = null;
   const zip = new Zip((error, data) => {
@@ -60,9 +92,10 @@ export function zipArchive(
     else chunks.push(data);
   });
   for (const f of files) {
-    const input: ZipInputFile = { filename: f.name, size: f.bytes.length, crc: crc(f.bytes), compression: 8, mtime };
+    const bytes = f.pieces ? encode(f.pieces) : f.bytes;
+    const input: ZipInputFile = { filename: f.name, size: bytes.length, crc: crc(bytes), compression: 8, mtime };
     zip.add(input);
-    input.ondata!(null, deflateRaw(f.bytes) as Uint8Array<ArrayBuffer>, true);
+    input.ondata!(null, deflateRaw(bytes) as Uint8Array<ArrayBuffer>, true);
   }
   zip.end();
   if (failure) throw failure;

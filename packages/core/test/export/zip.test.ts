@@ -32,6 +32,15 @@ describe("zipArchive", () => {
     for (const f of files) expect(Buffer.from(back[f.name]).equals(Buffer.from(f.bytes))).toBe(true);
   });
 
+  it("gives the same bytes for a text given as pieces as for its UTF-8 bytes, non-ASCII text and empty pieces included", () => {
+    const pieces = ["; table h", "        .byte   $01, $FF", "", "; ré-échelle ✓ 𝄞", "end"];
+    const text = pieces.join("\n");
+    const asBytes = zipArchive([files[0], { name: "a.s", bytes: new TextEncoder().encode(text) }, files[2]], date);
+    const asPieces = zipArchive([files[0], { name: "a.s", bytes: new Uint8Array(0), pieces: { pieces, separator: "\n" } }, files[2]], date);
+    expect(asPieces).toEqual(asBytes);
+    expect(new TextDecoder().decode(unzipSync(asPieces)["a.s"])).toBe(text);
+  });
+
   it("gives the same bytes for the same files (a fixed date, no clock)", () => {
     expect(Buffer.from(zipArchive(files, date)).equals(Buffer.from(zipArchive(files, date)))).toBe(true);
   });
