@@ -164,8 +164,9 @@ ${exportOptionsHelp}`,
       }
     }
     if (zip !== undefined) {
-      await io.writeFile(zip, bundle.zip);
-      io.stdout(`${zip}\t${bundle.zip.length} bytes\n`);
+      const bytes = await bundle.zipAsync();
+      await io.writeFile(zip, bytes);
+      io.stdout(`${zip}\t${bytes.length} bytes\n`);
     }
     io.stderr(`skewsmith export: label ${bundle.label}, ${bundle.budget.totalBytes} bytes of tables (see README.txt for the budget)\n`);
     return 0;

@@ -17,7 +17,7 @@ import { resolveExportOptions, type ExportOptions, type ExportOptionsInput, type
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Dialect } from "./z80.ts";
-import { zipArchive, type TextPieces, type ZipSource } from "./zip.ts";
+import { zipArchive, zipArchiveAsync, type TextPieces, type ZipSource } from "./zip.ts";
 
 /** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
 export interface BundleFile {
@@ -36,6 +36,8 @@ export interface ExportBundle {
    * same bytes; made when first read, so a caller that only writes the files never pays for it.
    */
   readonly zip: Uint8Array;
+  /** The same bytes as `zip`, with Node's zlib deflating on its thread pool meanwhile where there is one. */
+  zipAsync(): Promise<Uint8Array>;
   readonly budget: BudgetReport;
 }
 
@@ -184,6 +186,9 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, o
     files,
     get zip() {
       return (zip ??= zipArchive(zipSources(files), ZIP_DATE));
+    },
+    async zipAsync() {
+      return (zip ??= await zipArchiveAsync(zipSources(files), ZIP_DATE));
     },
     budget,
   };

@@ -3,7 +3,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { unzipSync } from "fflate";
 import { describe, expect, it } from "vitest";
-import { FFLATE_ZIP_CODEC, zipArchive } from "../../src/export/zip.ts";
+import { FFLATE_ZIP_CODEC, zipArchive, zipArchiveAsync } from "../../src/export/zip.ts";
 import { run, runBytes } from "./toolchain.ts";
 
 describe("zipArchive", () => {
@@ -39,6 +39,19 @@ describe("zipArchive", () => {
     const asPieces = zipArchive([files[0], { name: "a.s", bytes: new Uint8Array(0), pieces: { pieces, separator: "\n" } }, files[2]], date);
     expect(asPieces).toEqual(asBytes);
     expect(new TextDecoder().decode(unzipSync(asPieces)["a.s"])).toBe(text);
+  });
+
+  it("gives the same bytes deflating on Node's thread pool (zipArchiveAsync) as in one go, files as pieces or bytes", async () => {
+    const many = Array.from({ length: 5 }, (_, i) => ({
+      name: `t${i}.s`,
+      bytes: new Uint8Array(0),
+      pieces: {
+        pieces: Array.from({ length: 300 }, (_, j) => `        .word   $${((i * 977 + j * 31) & 0xffff).toString(16)}`),
+        separator: "\n",
+      },
+    }));
+    const all = [...files, ...many];
+    expect(await zipArchiveAsync(all, date)).toEqual(zipArchive(all, date));
   });
 
   it("gives the same bytes for the same files (a fixed date, no clock)", () => {
