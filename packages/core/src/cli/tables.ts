@@ -19,13 +19,21 @@ options:
     const { positionals, values } = parseCommandArgs(args, { pretty: { type: "boolean" } });
     // The work is loaded when a command runs, so that --help and --version start at once; a large track's diagnostics
     // workers start first, to load beside the rest.
-    const [{ readEffectFile }, { tablesText }] = await Promise.all([
+    const [{ readEffectFile }, { tablesText }, { compileTables }, { tablesDocumentPieces }] = await Promise.all([
       import("./readEffectFile.ts"),
       import("../tablesDocument.ts"),
+      import("../compileTables.ts"),
+      import("../export/json.ts"),
       prepareDiagnostics(positionals[0], io),
     ]);
     const effect = await readEffectFile(positionals[0], io);
-    io.stdout(tablesText(effect, { pretty: values.pretty }));
+    if (values.pretty) {
+      io.stdout(tablesText(effect, { pretty: true }));
+      return 0;
+    }
+    // tablesText's very bytes, printed a few hundred frames at a time rather than built whole and then encoded whole.
+    for (const piece of tablesDocumentPieces(compileTables(effect), false)) io.stdout(piece);
+    io.stdout("\n");
     return 0;
   },
 };

@@ -10,7 +10,7 @@ import { cHeader, cSourceLines } from "./c.ts";
 import { ca65Dialect } from "./ca65.ts";
 import { alwaysFiles, outputFiles } from "./files.ts";
 import { effectFileName } from "./header.ts";
-import { tablesJson } from "./json.ts";
+import { tablesDocumentPieces } from "./json.ts";
 import { layoutFromTables, type ExportLayout } from "./layout.ts";
 import { m68kDialect } from "./m68k.ts";
 import { resolveExportOptions, type ExportOptions, type ExportOptionsInput, type ExportOutput } from "./options.ts";
@@ -89,8 +89,8 @@ function zipSources(files: readonly BundleFile[]): ZipSource[] {
   });
 }
 
-/** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted). */
-export function outputTexts(layout: ExportLayout, json: () => string, onOutput?: (output: ExportOutput) => void): BundleFile[] {
+/** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted); `json` gives the tables document as pieces (tablesDocumentPieces). */
+export function outputTexts(layout: ExportLayout, json: () => readonly string[], onOutput?: (output: ExportOutput) => void): BundleFile[] {
   const names = outputFiles(layout.label);
   const text = (name: string, t: string): BundleFile => piecesFile(name, [t], "");
   const lines = (name: string, l: readonly string[]): BundleFile => piecesFile(name, l, "\n");
@@ -118,7 +118,7 @@ export function outputTexts(layout: ExportLayout, json: () => string, onOutput?:
         files.push(raw(n[0], binaryExport(layout, "little")), raw(n[1], binaryExport(layout, "big")));
         break;
       case "json":
-        files.push(text(n[0], json()));
+        files.push(piecesFile(n[0], [...json(), "\n"], ""));
         break;
       case "runtime":
         files.push(text(n[0], runtimeSource(layout)));
@@ -163,7 +163,7 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, o
     layout = layoutFromTables(tables, resolved);
     outputs = outputTexts(
       layout,
-      () => tablesJson(withDiagnostics(tables, diagnostics!.finish())),
+      () => tablesDocumentPieces(withDiagnostics(tables, diagnostics!.finish()), true),
       (output) => step(output),
     );
   } finally {
