@@ -38,13 +38,23 @@ function tableLines(dialect: AsmDialect, layout: ExportLayout, t: LayoutTable): 
   out.push(`${t.name}:`);
   const per = PER_LINE[size];
   const directive = `${INDENT}${dialect.data[size]}`.padEnd(INDENT.length + 8);
+  // A table holds few distinct values (shifts of a few hundred pixels at most), so each is spelled once.
+  const spelled = new Map<number, string>();
+  const operand = (v: number): string => {
+    let text = spelled.get(v);
+    if (text === undefined) {
+      text = dialect.operand(v, t.type);
+      spelled.set(v, text);
+    }
+    return text;
+  };
   const block = (values: readonly number[]) => {
     const lines: string[] = [];
     for (let i = 0; i < values.length; i += per)
       lines.push(
         `${directive}${values
           .slice(i, i + per)
-          .map((v) => dialect.operand(v, t.type))
+          .map(operand)
           .join(", ")}`,
       );
     return lines.join("\n");
