@@ -4,7 +4,7 @@ import type { Effect } from "../effect.ts";
 import { ExportOptionError } from "../export/exportOptionError.ts";
 import { EXPORT_OUTPUTS, REGISTER_BITS, type ExportOptionsInput, type ExportOutput } from "../export/options.ts";
 import { parseCommandArgs } from "./args.ts";
-import { UsageError, type CliIo, type Command } from "./io.ts";
+import { prepareDiagnostics, UsageError, type CliIo, type Command } from "./io.ts";
 
 /** The parseArgs options `export` and `budget` share. */
 export const exportArgOptions = {
@@ -96,15 +96,21 @@ export function exportOptionsFromArgs(values: Values, path: string): ExportOptio
   };
 }
 
-/** Reads the effect file and the shared export options of `export` and `budget`. */
+/** Reads the effect file and the shared export options of `export` and `budget`; `diagnostics`: the command may measure the track (its workers then start early). */
 export async function readExportArgs<T extends Record<string, { type: "string" | "boolean" }>>(
   args: string[],
   io: CliIo,
   extra: T,
+  diagnostics = false,
 ): Promise<{ effect: Effect; options: ExportOptionsInput; values: Record<string, string | boolean | undefined> }> {
   const { positionals, values } = parseCommandArgs(args, { ...exportArgOptions, ...extra });
   if (positionals.length > 1) throw new UsageError(`one EFFECT.json expected, got ${positionals.length}: ${positionals.join(" ")}`);
-  const { readEffectFile } = await import("./readEffectFile.ts");
+  // Only the tables document (output "json") carries diagnostics, so only then are the workers worth starting early.
+  const outputs = typeof values.outputs === "string" ? values.outputs.split(",").map((w) => w.trim()) : ["json"];
+  const [{ readEffectFile }] = await Promise.all([
+    import("./readEffectFile.ts"),
+    diagnostics && outputs.includes("json") ? prepareDiagnostics(positionals[0], io) : undefined,
+  ]);
   const effect = await readEffectFile(positionals[0], io);
   const options = exportOptionsFromArgs(values as Values, positionals[0]);
   return { effect, options, values: values as Record<string, string | boolean | undefined> };
@@ -143,7 +149,7 @@ options:
   --zip FILE            also (or only) write the bundle as a zip file
 ${exportOptionsHelp}`,
   async run(args, io) {
-    const { effect, options, values } = await readExportArgs(args, io, { out: { type: "string" }, zip: { type: "string" } });
+    const { effect, options, values } = await readExportArgs(args, io, { out: { type: "string" }, zip: { type: "string" } }, true);
     const out = values.out as string | undefined;
     const zip = values.zip as string | undefined;
     if (out === undefined && zip === undefined) throw new UsageError("--out DIR or --zip FILE is required (where to write the bundle)");
@@ -158,8 +164,9 @@ ${exportOptionsHelp}`,
       }
     }
     if (zip !== undefined) {
-      await io.writeFile(zip, bundle.zip);
-      io.stdout(`${zip}\t${bundle.zip.length} bytes\n`);
+      const bytes = await bundle.zipAsync();
+      await io.writeFile(zip, bytes);
+      io.stdout(`${zip}\t${bytes.length} bytes\n`);
     }
     io.stderr(`skewsmith export: label ${bundle.label}, ${bundle.budget.totalBytes} bytes of tables (see README.txt for the budget)\n`);
     return 0;

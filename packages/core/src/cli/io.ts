@@ -16,6 +16,27 @@ export const processIo: CliIo = {
   writeFile: (path, data) => writeFile(path, data),
 };
 
+/**
+ * Starts the diagnostics worker threads if the effect file at `path` holds a track large enough to be spread over them,
+ * so that they load while the command reads, validates and compiles it. Reads the file a first time for its size only:
+ * a missing file or bad JSON is left to the command's own read to report.
+ */
+export async function prepareDiagnostics(path: string | undefined, io: CliIo): Promise<void> {
+  if (!path) return;
+  const [bytes, { prepareWorkersFor }] = await Promise.all([
+    io.readFile(path).catch(() => null),
+    import("../diagnostics/diagnoseTrack.ts"),
+  ]);
+  if (bytes === null) return;
+  let json: unknown;
+  try {
+    json = JSON.parse(new TextDecoder().decode(bytes));
+  } catch {
+    return;
+  }
+  prepareWorkersFor(json);
+}
+
 /** A mistake in how a command was called or in its input: printed as `skewsmith: <message>`, exit code 2. */
 export class UsageError extends Error {
   constructor(message: string) {

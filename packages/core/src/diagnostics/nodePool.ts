@@ -1,12 +1,12 @@
 /**
  * A pool of Node `worker_threads` workers for diagnostics, used by compileTables (and so by the CLI) on large tracks.
  *
- * The calling thread blocks until every frame is measured (compileTables stays synchronous) and takes its own share of
- * the work meanwhile: it hands frame ranges to the workers that are ready, measures other ranges itself, reads answers
- * with `receiveMessageOnPort` between them, and sleeps in `Atomics.wait` only when nothing is left but the workers'
- * ranges. A worker speaks the diagnostics protocol (./protocol.ts, the same handler a browser worker runs) and bumps a
- * shared counter after each message so that the sleeping thread wakes. Workers start on first use, stay for the next
- * call and never keep the process alive (unref).
+ * A track is measured through shared memory (./sharedTrack.ts): `begin` posts the track to the workers, which take its
+ * frame ranges one at a time from a shared counter and write their figures into shared arrays; `finish` has the calling
+ * thread take the ranges still left, then sleep in `Atomics.wait` until the workers' last ones are in. Between the two
+ * the caller may do other work (the export builds its other files meanwhile); compileTables calls both at once and
+ * stays synchronous. A worker that loads late or runs slowly just takes fewer ranges. Workers start on first use (or
+ * early, through `grow`), stay for the next call and never keep the process alive (unref).
  *
  * Node's modules are reached through `process.getBuiltinModule` at run time, never imported, so the modules that import
  * this one still load in a browser; there, and wherever workers cannot start, `nodePool` returns null and the caller
@@ -25,15 +25,24 @@ import type * as NodeUrl from "node:url";
 import type * as NodeWorkerThreads from "node:worker_threads";
 import type { Effect } from "../effect.ts";
 import type { FrameRange, FramesDiagnostics } from "./diagnoseFrames.ts";
-import { DIAGNOSTICS_ERROR, DIAGNOSTICS_RESULT, diagnosticsRequest, type DiagnosticsResponse } from "./protocol.ts";
+import {
+  closeTrack,
+  measureHere,
+  RANGE_FAILED,
+  rangeState,
+  settledRanges,
+  sharedTrack,
+  takeRanges,
+  TRACK_REQUEST,
+  waitForRanges,
+  type SharedTrack,
+  type TrackRequest,
+} from "./sharedTrack.ts";
 
 /** Type tag a worker posts once it has loaded and listens. */
 export const WORKER_READY = "skewsmith.diagnostics/ready";
 /** Type tag a worker posts when it could not load. */
 export const WORKER_FAILED = "skewsmith.diagnostics/failed";
-
-/** Ranges in flight per worker: one to work on and one waiting, so a worker never idles while the caller measures. */
-const IN_FLIGHT = 2;
 
 /** A worker whose range takes this much longer than the caller's slowest is given up on; its range is measured here. */
 const STALL_FACTOR = 50;
@@ -64,10 +73,15 @@ function builtins(): Builtins | null {
 interface PoolWorker {
   readonly worker: NodeWorkerThreads.Worker;
   readonly port: NodeWorkerThreads.MessagePort;
-  ready: boolean;
   dead: boolean;
-  /** Request id → [range index, time posted]. */
-  readonly pending: Map<number, readonly [number, number]>;
+}
+
+/** A track being measured: `finish` takes the caller's share and returns the figures, `cancel` lets it go unfinished. */
+export interface PendingTrack {
+  /** Measures the ranges still left with `local` on this thread, waits for the workers' ones, returns every frame's figures. */
+  finish(local: (range: FrameRange) => FramesDiagnostics): FramesDiagnostics;
+  /** Stops the workers taking further ranges of this track (for a caller that will not finish it). */
+  cancel(): void;
 }
 
 /** Code each worker starts with: load the TypeScript loader when running from source, then the worker module. */
@@ -126,14 +140,13 @@ export interface WorkerEntry {
 }
 
 /**
- * Runs diagnostics requests on worker threads, the caller taking its share (see the module comment). nodePool makes
- * the process's one; another is for tests (say, of workers that fail to start).
+ * Measures tracks on worker threads, the caller taking its share (see the module comment). nodePool makes the process's
+ * one; another is for tests (say, of workers that fail to start).
  */
 export class DiagnosticsPool {
   private readonly workers: PoolWorker[] = [];
-  /** Bumped by every worker after every message it posts. */
+  /** Bumped by a worker after every message it posts (the worker module's contract; read by nobody here now). */
   private readonly signal = new Int32Array(new SharedArrayBuffer(4));
-  private nextId = 1;
   private readonly b: Builtins;
 
   /** A pool whose workers run `entry` (default: the worker module beside this one); throws where there are no worker threads. */
@@ -143,8 +156,9 @@ export class DiagnosticsPool {
     this.b = b;
   }
 
-  /** Starts workers until `count` are alive (never more than asked for). */
-  private grow(count: number): void {
+  /** Starts workers until `count` are alive (never more than asked for); they load while the caller does other work. */
+  grow(count: number): void {
+    this.drain();
     const alive = this.workers.filter((w) => !w.dead);
     for (let i = alive.length; i < count; i++) {
       const { port1, port2 } = new this.b.threads.MessageChannel();
@@ -155,18 +169,76 @@ export class DiagnosticsPool {
       });
       worker.unref();
       port1.unref();
-      this.workers.push({ worker, port: port1, ready: false, dead: false, pending: new Map() });
+      this.workers.push({ worker, port: port1, dead: false });
     }
+  }
+
+  /** Reads what the workers posted: a worker that could not load is stopped (grow starts another when asked). */
+  private drain(): void {
+    for (const w of this.workers) {
+      if (w.dead) continue;
+      for (let m = this.b.threads.receiveMessageOnPort(w.port); m !== undefined; m = this.b.threads.receiveMessageOnPort(w.port))
+        if ((m.message as { type?: unknown }).type === WORKER_FAILED) this.retire(w);
+    }
+    for (let i = this.workers.length - 1; i >= 0; i--) if (this.workers[i].dead) this.workers.splice(i, 1);
   }
 
   /** Stops every worker (the pool starts new ones when used again). */
   close(): void {
-    for (const w of this.workers) {
-      w.dead = true;
-      w.port.close();
-      void w.worker.terminate();
-    }
+    for (const w of this.workers) this.retire(w);
     this.workers.length = 0;
+  }
+
+  /**
+   * Starts measuring `ranges` (consecutive) of `effect` on up to `workers` worker threads, which take them one at a
+   * time; the caller joins in with `finish`.
+   */
+  begin(effect: Effect, mask: Uint8Array | undefined, ranges: readonly FrameRange[], workers: number): PendingTrack {
+    this.grow(workers);
+    const team = this.workers.filter((w) => !w.dead).slice(0, workers);
+    const track = sharedTrack(ranges);
+    // Shared memory: the mask is copied once, not once per worker.
+    let shared: Uint8Array | undefined;
+    if (mask !== undefined) {
+      shared = new Uint8Array(new SharedArrayBuffer(mask.length));
+      shared.set(mask);
+    }
+    const request: TrackRequest = { type: TRACK_REQUEST, effect, ...(shared && { mask: shared }), ...track };
+    for (const w of team) w.port.postMessage(request);
+    return { finish: (local) => this.finish(track, team, local), cancel: () => closeTrack(track) };
+  }
+
+  private finish(track: SharedTrack, team: readonly PoolWorker[], local: (range: FrameRange) => FramesDiagnostics): FramesDiagnostics {
+    const n = track.ranges.length;
+    let slowestLocal = 0;
+    takeRanges(
+      track,
+      (range) => {
+        const start = performance.now();
+        const result = local(range);
+        slowestLocal = Math.max(slowestLocal, performance.now() - start);
+        return result;
+      },
+      false,
+    );
+    // Nothing left to take: sleep until the workers' ranges are in, or give them up when they stop coming.
+    let seen = settledRanges(track);
+    let progress = performance.now();
+    while (seen < n) {
+      waitForRanges(track, seen, 1000);
+      const now = settledRanges(track);
+      if (now !== seen) {
+        seen = now;
+        progress = performance.now();
+      } else if (performance.now() - progress > Math.max(STALL_MIN_MS, STALL_FACTOR * slowestLocal)) {
+        for (const w of team) this.retire(w);
+        for (let i = 0; i < n; i++) if (rangeState(track, i) === 0) measureHere(track, i, local);
+        break;
+      }
+    }
+    // A worker's error (which the same range raises here too) is measured here, to throw it here.
+    for (let i = 0; i < n; i++) if (rangeState(track, i) === RANGE_FAILED) measureHere(track, i, local);
+    return track;
   }
 
   /**
@@ -180,91 +252,25 @@ export class DiagnosticsPool {
     workers: number,
     local: (range: FrameRange) => FramesDiagnostics,
   ): FramesDiagnostics[] {
-    this.grow(workers);
-    const team = this.workers.filter((w) => !w.dead).slice(0, workers);
-    // Answers to an earlier call that ended early (it threw) are not this call's: their ids are forgotten.
-    for (const w of team) w.pending.clear();
-    // Shared memory: every request carries a view of it, so the mask is copied once, not once per range.
-    let shared: Uint8Array | undefined;
-    if (mask !== undefined) {
-      shared = new Uint8Array(new SharedArrayBuffer(mask.length));
-      shared.set(mask);
-    }
-    const results: (FramesDiagnostics | undefined)[] = new Array(ranges.length);
-    const queue = ranges.map((_, i) => i);
-    let done = 0;
-    let slowestLocal = 0;
-    const finish = (i: number, result: FramesDiagnostics) => {
-      if (results[i] === undefined) done++;
-      results[i] = result;
-    };
-    const receive = () => {
-      for (const w of team) {
-        if (w.dead) continue;
-        for (let m = this.b.threads.receiveMessageOnPort(w.port); m !== undefined; m = this.b.threads.receiveMessageOnPort(w.port)) {
-          const data = m.message as DiagnosticsResponse | { type: string; id?: number; message?: string };
-          if (data.type === WORKER_READY) w.ready = true;
-          else if (data.type === WORKER_FAILED) this.retire(w, queue);
-          else if (data.type === DIAGNOSTICS_RESULT || data.type === DIAGNOSTICS_ERROR) {
-            const id = (data as DiagnosticsResponse).id;
-            const entry = w.pending.get(id);
-            if (entry === undefined) continue;
-            w.pending.delete(id);
-            // A worker's error (which the same request would raise here too) is measured here, to throw it here.
-            if (data.type === DIAGNOSTICS_RESULT) finish(entry[0], data as FramesDiagnostics);
-            else queue.push(entry[0]);
-          }
-        }
-      }
-    };
-    const feed = () => {
-      for (const w of team) {
-        while (w.ready && !w.dead && w.pending.size < IN_FLIGHT && queue.length > 0) {
-          const i = queue.shift()!;
-          const id = this.nextId++;
-          w.pending.set(id, [i, performance.now()]);
-          w.port.postMessage(diagnosticsRequest(effect, ranges[i], { id, mask: shared }));
-        }
-      }
-    };
-    const checkStalls = () => {
-      const now = performance.now();
-      for (const w of team)
-        for (const [, posted] of w.pending.values())
-          if (now - posted > Math.max(STALL_MIN_MS, STALL_FACTOR * slowestLocal)) {
-            this.retire(w, queue);
-            break;
-          }
-    };
-    while (done < ranges.length) {
-      receive();
-      feed();
-      const i = queue.pop();
-      if (i !== undefined) {
-        if (results[i] !== undefined) continue;
-        const start = performance.now();
-        finish(i, local(ranges[i]));
-        slowestLocal = Math.max(slowestLocal, performance.now() - start);
-        continue;
-      }
-      if (done === ranges.length) break;
-      // Nothing left here but ranges in flight: sleep until a worker posts (or a second passes, to look for stalls).
-      const seen = Atomics.load(this.signal, 0);
-      receive();
-      if (done < ranges.length && queue.length === 0) {
-        Atomics.wait(this.signal, 0, seen, 1000);
-        checkStalls();
-      }
-    }
-    return results as FramesDiagnostics[];
+    const all = this.begin(effect, mask, ranges, workers).finish(local);
+    return ranges.map(({ start, end }) => {
+      const a = start - all.start;
+      const b = end - all.start;
+      return {
+        start,
+        end,
+        maxErrorPx: all.maxErrorPx.subarray(a, b),
+        meanErrorPx: all.meanErrorPx.subarray(a, b),
+        wrapped: all.wrapped.subarray(a, b),
+        clipped: all.clipped.subarray(a, b),
+      };
+    });
   }
 
-  /** Gives a worker up: its ranges go back to the queue, and it is stopped. */
-  private retire(w: PoolWorker, queue: number[]): void {
+  /** Stops a worker. */
+  private retire(w: PoolWorker): void {
     if (w.dead) return;
     w.dead = true;
-    for (const [i] of w.pending.values()) queue.push(i);
-    w.pending.clear();
     w.port.close();
     void w.worker.terminate();
   }

@@ -63,11 +63,30 @@ function antisymmetry(frames: readonly FrameTables[], key: "h" | "v"): Availabil
   return { available: true, reason: `${key}[${key === "h" ? "H" : "W"}−1−i] = −${key}[i] in every frame` };
 }
 
+/** Analyses already made, by tables and then by sign and register width: an export's budget and layout share one. */
+const analyses = new WeakMap<CompiledTables<FrameTables>, Map<string, ExportAnalysis>>();
+
 /**
  * Looks at every compiled frame once: range of the exported values, antisymmetry of h and v, and which frames are
- * identical. Frames share tables (one per coefficient from compileShifts), so each distinct table is read once.
+ * identical. Frames share tables (one per coefficient from compileShifts), so each distinct table is read once; and
+ * the same tables under the same sign and register width are analysed once (the result is read-only).
  */
 export function analyseExport(tables: CompiledTables<FrameTables>, sign: Sign, registerBits: number | null): ExportAnalysis {
+  let bySettings = analyses.get(tables);
+  if (bySettings === undefined) {
+    bySettings = new Map();
+    analyses.set(tables, bySettings);
+  }
+  const key = `${sign} ${registerBits}`;
+  let analysis = bySettings.get(key);
+  if (analysis === undefined) {
+    analysis = analyse(tables, sign, registerBits);
+    bySettings.set(key, analysis);
+  }
+  return analysis;
+}
+
+function analyse(tables: CompiledTables<FrameTables>, sign: Sign, registerBits: number | null): ExportAnalysis {
   const { frames, effect } = tables;
   let min = 0;
   let max = 0;

@@ -38,13 +38,23 @@ function tableLines(dialect: AsmDialect, layout: ExportLayout, t: LayoutTable): 
   out.push(`${t.name}:`);
   const per = PER_LINE[size];
   const directive = `${INDENT}${dialect.data[size]}`.padEnd(INDENT.length + 8);
+  // A table holds few distinct values (shifts of a few hundred pixels at most), so each is spelled once.
+  const spelled = new Map<number, string>();
+  const operand = (v: number): string => {
+    let text = spelled.get(v);
+    if (text === undefined) {
+      text = dialect.operand(v, t.type);
+      spelled.set(v, text);
+    }
+    return text;
+  };
   const block = (values: readonly number[]) => {
     const lines: string[] = [];
     for (let i = 0; i < values.length; i += per)
       lines.push(
         `${directive}${values
           .slice(i, i + per)
-          .map((v) => dialect.operand(v, t.type))
+          .map(operand)
           .join(", ")}`,
       );
     return lines.join("\n");
@@ -68,6 +78,14 @@ function tableLines(dialect: AsmDialect, layout: ExportLayout, t: LayoutTable): 
 
 /** Prints an export layout as one assembler source file in the given dialect: header, constants, exported labels, tables. */
 export function assemblySource(layout: ExportLayout, dialect: AsmDialect): string {
+  return assemblyLines(layout, dialect).join("\n");
+}
+
+/**
+ * assemblySource as pieces to join with "\n" (a piece may hold several lines): frames that share a row share one
+ * piece, so a zip can encode the file from them without building the whole text first.
+ */
+export function assemblyLines(layout: ExportLayout, dialect: AsmDialect): string[] {
   const c = dialect.comment;
   const comment = (lines: readonly string[]) => lines.map((l) => (l ? `${c} ${l}` : c));
   const lines = [
@@ -85,5 +103,5 @@ export function assemblySource(layout: ExportLayout, dialect: AsmDialect): strin
   lines.push("", `${INDENT}${dialect.section}`);
   for (const t of layout.tables) lines.push("", ...tableLines(dialect, layout, t));
   lines.push("");
-  return lines.join("\n");
+  return lines;
 }

@@ -84,6 +84,11 @@ function initializer(layout: ExportLayout, t: LayoutTable): string[] {
 
 /** The source `L.c`: every table defined as a const array, for C99 and C++ compilers alike. */
 export function cSource(layout: ExportLayout): string {
+  return cSourceLines(layout).join("\n");
+}
+
+/** cSource as pieces to join with "\n" (a piece may hold several lines; frames that share a row share one). */
+export function cSourceLines(layout: ExportLayout): string[] {
   const L = layout.label;
   const lines = [
     ...cComment([...parameterLines(layout), "", `Table definitions; declarations and constants are in ${L}.h.`]),
@@ -91,5 +96,5 @@ export function cSource(layout: ExportLayout): string {
   ];
   for (const t of layout.tables) lines.push("", `/* ${t.description} */`, `${declaration(t)} = {`, ...initializer(layout, t), "};");
   lines.push("");
-  return lines.join("\n");
+  return lines;
 }

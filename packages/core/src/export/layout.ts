@@ -288,8 +288,14 @@ export function layoutFromTables(tables: CompiledTables<FrameTables>, options: E
   const frameOf = stored.map((held) => tables.frames[held[0]]);
   const value = (s: number) => exportedValue(s, options.sign, options.registerBits);
 
-  const hRow = memo((t: Int32Array) => Array.from(t.subarray(0, plan.hEntries), value));
-  const vRow = memo((t: Int32Array) => Array.from(t.subarray(0, plan.vEntries), value));
+  // A plain loop, not Array.from with a map function: that walks the table through the iterator protocol.
+  const row = (t: Int32Array, n: number): number[] => {
+    const out: number[] = [];
+    for (let i = 0; i < n; i++) out.push(value(t[i]));
+    return out;
+  };
+  const hRow = memo((t: Int32Array) => row(t, Math.min(t.length, plan.hEntries)));
+  const vRow = memo((t: Int32Array) => row(t, Math.min(t.length, plan.vEntries)));
   // Split tables: the low and high byte of each 16-bit two's complement value.
   const lo = memo((row: readonly number[]) => row.map((x) => twosComplement(x, 2) & 0xff));
   const hi = memo((row: readonly number[]) => row.map((x) => twosComplement(x, 2) >> 8));

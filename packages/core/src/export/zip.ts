@@ -43,26 +43,112 @@ function zipCodec(): ZipCodec {
   return codec;
 }
 
+/** A text file's content as pieces to join with `separator`: a zip encodes it from them without joining them first. */
+export interface TextPieces {
+  readonly pieces: readonly string[];
+  readonly separator: string;
+}
+
+/** One file to zip: its name and bytes, or its text as pieces (then its bytes are not read). */
+export interface ZipSource {
+  readonly name: string;
+  readonly bytes: Uint8Array;
+  readonly pieces?: TextPieces;
+}
+
+/** UTF-16 code units of a text given as pieces; its UTF-8 takes at most three bytes for each. */
+function codeUnits({ pieces, separator }: TextPieces): number {
+  let n = separator.length * Math.max(0, pieces.length - 1);
+  for (const p of pieces) n += p.length;
+  return n;
+}
+
 /**
  * A zip archive of the files, in order, deflated at level 1 and dated `mtime`, so that the same files give the same
  * bytes; the container is fflate's (local headers with data descriptors, then the central directory).
+ *
+ * A text given as pieces is encoded (UTF-8, as TextEncoder does) into one buffer that every such file reuses, then
+ * checksummed and deflated from there: on a machine that pays dearly for fresh memory pages, encoding 90 MB of text
+ * into new arrays cost more than deflating it (bench/cli.bench.ts).
  */
-export function zipArchive(
-  files: readonly { readonly name: string; readonly bytes: Uint8Array }[],
-  mtime: Date,
-  using: ZipCodec = zipCodec(),
-): Uint8Array {
+export function zipArchive(files: readonly ZipSource[], mtime: Date, using: ZipCodec = zipCodec()): Uint8Array {
   const { deflateRaw, crc32: crc } = using;
+  const encode = piecesEncoder(files, 1)[0];
+  const entries = files.map((f) => {
+    const bytes = f.pieces ? encode(f.pieces) : f.bytes;
+    return { name: f.name, size: bytes.length, crc: crc(bytes), deflated: deflateRaw(bytes) };
+  });
+  return container(entries, mtime);
+}
+
+/**
+ * zipArchive with Node's zlib deflating on its thread pool, two files at a time, while this thread encodes the next:
+ * the very same bytes (the same deflate, level and input), sooner on a machine with a core to spare. Where there is no
+ * Node zlib it is zipArchive.
+ */
+export async function zipArchiveAsync(files: readonly ZipSource[], mtime: Date): Promise<Uint8Array> {
+  const zlib = nodeZlib();
+  if (zlib === undefined) return zipArchive(files, mtime);
+  const deflate = (bytes: Uint8Array) =>
+    new Promise<Uint8Array>((resolve, reject) =>
+      zlib.deflateRaw(bytes, { level: ZIP_LEVEL }, (error, out) => (error ? reject(error) : resolve(out))),
+    );
+  const SLOTS = 2;
+  const encoders = piecesEncoder(files, SLOTS);
+  const busy: Promise<unknown>[] = [];
+  const pending: Promise<{ name: string; size: number; crc: number; deflated: Uint8Array }>[] = [];
+  for (let i = 0; i < files.length; i++) {
+    const f = files[i];
+    const slot = i % SLOTS;
+    // A slot's buffer is written again only once the deflate reading it has finished.
+    if (f.pieces) await busy[slot];
+    const bytes = f.pieces ? encoders[slot](f.pieces) : f.bytes;
+    const size = bytes.length;
+    const crc = zlib.crc32(bytes);
+    const deflated = deflate(bytes);
+    if (f.pieces) busy[slot] = deflated.catch(() => undefined);
+    pending.push(deflated.then((d) => ({ name: f.name, size, crc, deflated: d })));
+  }
+  return container(await Promise.all(pending), mtime);
+}
+
+/**
+ * `count` encoders of texts given as pieces, each writing into a buffer of its own (made once, large enough for the
+ * largest such file) and returning a view of it, valid until its next call.
+ */
+function piecesEncoder(files: readonly ZipSource[], count: number): ((text: TextPieces) => Uint8Array)[] {
+  let largest = 0;
+  for (const f of files) if (f.pieces) largest = Math.max(largest, codeUnits(f.pieces));
+  const encoder = new TextEncoder();
+  return Array.from({ length: count }, () => {
+    let scratch: Uint8Array | undefined;
+    return ({ pieces, separator }: TextPieces): Uint8Array => {
+      scratch ??= new Uint8Array(largest * 3);
+      let at = 0;
+      for (let i = 0; i < pieces.length; i++) {
+        if (i > 0) at += encoder.encodeInto(separator, scratch.subarray(at)).written;
+        at += encoder.encodeInto(pieces[i], scratch.subarray(at)).written;
+      }
+      return scratch.subarray(0, at);
+    };
+  });
+}
+
+/** The zip container (fflate's: local headers with data descriptors, then the central directory) of deflated entries. */
+function container(
+  entries: readonly { readonly name: string; readonly size: number; readonly crc: number; readonly deflated: Uint8Array }[],
+  mtime: Date,
+): Uint8Array {
   const chunks: Uint8Array[] = [];
   let failure: Error | null = null;
   const zip = new Zip((error, data) => {
     if (error) failure = error;
     else chunks.push(data);
   });
-  for (const f of files) {
-    const input: ZipInputFile = { filename: f.name, size: f.bytes.length, crc: crc(f.bytes), compression: 8, mtime };
+  for (const e of entries) {
+    const input: ZipInputFile = { filename: e.name, size: e.size, crc: e.crc, compression: 8, mtime };
     zip.add(input);
-    input.ondata!(null, deflateRaw(f.bytes) as Uint8Array<ArrayBuffer>, true);
+    input.ondata!(null, e.deflated as Uint8Array<ArrayBuffer>, true);
   }
   zip.end();
   if (failure) throw failure;

@@ -83,3 +83,23 @@ describe("DiagnosticsPool with working workers", () => {
     expect(results.flatMap((r) => Array.from(r.meanErrorPx))).toEqual(Array.from(all.meanErrorPx));
   });
 });
+
+describe("DiagnosticsPool.begin", () => {
+  it("lets the workers measure while the caller does other work, and finish gives the calling thread's figures", () => {
+    const pool = nodePool()!;
+    const small = parseEffect({
+      canvas: { width: 96, height: 64 },
+      pivot: { x: 48, y: 32 },
+      angles: { sweep: { from: 0, to: 360, frames: 64 } },
+    });
+    const ranges = splitFrames(64, 16);
+    pool.run(small, undefined, ranges, 1, (range) => diagnoseFrames(small, range)); // the worker is loaded after this
+    const pending = pool.begin(small, undefined, ranges, 1);
+    const until = performance.now() + 300; // the caller busy elsewhere
+    while (performance.now() < until);
+    let local = 0;
+    const all = pending.finish((range) => (local++, diagnoseFrames(small, range)));
+    expect(local).toBeLessThan(ranges.length);
+    expect(Array.from(all.meanErrorPx)).toEqual(Array.from(diagnoseFrames(small).meanErrorPx));
+  });
+});
