@@ -6,6 +6,7 @@ import { exportChoiceFrom } from "../bench/exportChoice.ts";
 import { exportDefaultsForProfile } from "../exports/defaults.ts";
 import { BENCH_FIELDS, benchErrors, benchForm, saveForm } from "../bench/form.ts";
 import { benchState, savedDiagnostics } from "../bench/saved.server.ts";
+import { packDiagnostics } from "../bench/savedWire.ts";
 import { viewFromSearch } from "../bench/view.ts";
 import { Bench } from "../components/bench/Bench.tsx";
 import { buttonClass } from "../components/ui.tsx";
@@ -34,7 +35,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     getEffectChanges(db(), effect.id),
   ]);
   // The sprite's version comes with the project's list, read before its picture is (as savedDiagnostics requires).
-  const diagnostics = await savedDiagnostics(db(), effect, { spriteVersion: sprites.find((s) => s.id === effect.spriteId)?.version });
+  const diagnostics = await savedDiagnostics(db(), effect, {
+    spriteVersion: sprites.find((s) => s.id === effect.spriteId)?.version,
+    state: saved,
+  });
   const frames =
     diagnostics.rows?.length ?? ("list" in saved.document.angles ? saved.document.angles.list.length : saved.document.angles.sweep.frames);
   const profile = profiles.find((p) => p.id === effect.targetProfileId) ?? null;
@@ -63,7 +67,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       exportOptions: p.exportOptions,
     })),
     sprites,
-    diagnostics,
+    diagnostics: packDiagnostics(diagnostics),
     /** The last change of its target profile that reached the effect (who, when, each setting before and after). */
     profileChange,
     exportDefaults: exportChoiceFrom(exportDefaultsForProfile(profile, effect.name), effect.name),
