@@ -380,9 +380,9 @@ function cpuMs(pid: number): number {
   }
 }
 
-/** CPU used so far by the PostgreSQL backends serving database `name` (their process titles name it). */
-function databaseCpuMs(name: string): number {
-  let total = 0;
+/** CPU used so far by each PostgreSQL backend serving database `name` (their process titles name it), by pid. */
+function databaseCpuByPid(name: string): Map<number, number> {
+  const byPid = new Map<number, number>();
   for (const entry of readdirSync("/proc")) {
     if (!/^\d+$/.test(entry)) continue;
     let title: string;
@@ -391,9 +391,35 @@ function databaseCpuMs(name: string): number {
     } catch {
       continue;
     }
-    if (title.startsWith("postgres: ") && title.split(" ")[2] === name) total += cpuMs(Number(entry));
+    if (title.startsWith("postgres: ") && title.split(" ")[2] === name) byPid.set(Number(entry), cpuMs(Number(entry)));
   }
-  return total;
+  return byPid;
+}
+
+/**
+ * The CPU a database's backends use from now until `stop()`: looked at every half second, so a backend that exits
+ * in between (the pool closes idle connections) keeps what it used up to its last look instead of dropping out of
+ * the sum (which made the figure too low, even negative).
+ */
+function databaseCpuMeter(name: string): { stop(): number } {
+  const first = databaseCpuByPid(name);
+  const last = new Map(first);
+  const look = () => {
+    for (const [pid, ms] of databaseCpuByPid(name)) {
+      if (!first.has(pid)) first.set(pid, 0);
+      last.set(pid, ms);
+    }
+  };
+  const timer = setInterval(look, 500);
+  return {
+    stop() {
+      clearInterval(timer);
+      look();
+      let total = 0;
+      for (const [pid, ms] of last) total += ms - first.get(pid)!;
+      return total;
+    },
+  };
 }
 
 interface Raw {
@@ -419,7 +445,8 @@ async function run(
   const kinds = new Map<string, { sent: number; failed: number }>();
   const sizes = new Map<string, { answers: number; bytes: number }>();
   const rssBefore = server.rss();
-  const cpuBefore = [cpuMs(server.child.pid!), databaseCpuMs(server.database)];
+  const cpuBefore = cpuMs(server.child.pid!);
+  const database = databaseCpuMeter(server.database);
   let next = 0;
   const result = await autocannon({
     url: server.url,
@@ -452,8 +479,8 @@ async function run(
     },
   });
   return {
-    cpuServer: cpuMs(server.child.pid!) - cpuBefore[0],
-    cpuDatabase: databaseCpuMs(server.database) - cpuBefore[1],
+    cpuServer: cpuMs(server.child.pid!) - cpuBefore,
+    cpuDatabase: database.stop(),
     latencies,
     requests: result.requests.total,
     seconds: options.seconds,
