@@ -42,7 +42,33 @@ export interface EffectPageLists {
 type SpriteJson = Omit<SpriteListItem, "colours" | "createdAt" | "updatedAt"> & { createdAt: number; updatedAt: number };
 
 /** Milliseconds since 1970 of a timestamp, truncated as the driver truncates a timestamp it reads into a Date. */
-const epochMs = (column: string) => sql.raw(`floor(extract(epoch from ${column}) * 1000)::float8`);
+export const epochMs = (column: string) => sql.raw(`floor(extract(epoch from ${column}) * 1000)::float8`);
+
+/** The sprites of the project named by placeholder `projectId`, as JSON (read back by spritesFromJson). */
+export function projectSpritesJson() {
+  return sql<SpriteJson[]>`coalesce((
+      select json_agg(json_build_object(
+        'id', s.id, 'name', s.name, 'kind', s.kind, 'width', s.width, 'height', s.height, 'palette', s.palette,
+        'byteSize', s.byte_size, 'version', s.version, 'uploadedByName', coalesce(u.name, u.login),
+        'createdAt', ${epochMs("s.created_at")}, 'updatedAt', ${epochMs("s.updated_at")},
+        'usedBy', coalesce((
+          select json_agg(json_build_object('id', e.id, 'name', e.name, 'deleted', e.deleted_at is not null) order by lower(e.name), e.id)
+          from effects e where e.sprite_id = s.id), '[]'::json)
+      ) order by lower(s.name))
+      from sprites s left join users u on u.id = s.uploaded_by
+      where s.project_id = ${sql.placeholder("projectId")}), '[]'::json)`;
+}
+
+/** The sprites of projectSpritesJson as listSprites gives them. */
+export function spritesFromJson(sprites: SpriteJson[]): SpriteListItem[] {
+  return sprites.map((s) => ({
+    ...s,
+    usedBy: s.usedBy as SpriteUse[],
+    colours: s.palette.length,
+    createdAt: new Date(s.createdAt),
+    updatedAt: new Date(s.updatedAt),
+  }));
+}
 
 /** The effect page's lists for effect `effectId` of project `projectId` in team `teamId`; empty lists when it is gone. */
 export async function getEffectPageLists(db: Tx, ids: { teamId: string; projectId: string; effectId: string }): Promise<EffectPageLists> {
@@ -56,17 +82,7 @@ export async function getEffectPageLists(db: Tx, ids: { teamId: string; projectI
         'labelPrefix', tp.label_prefix, 'exportOptions', tp.export_options
       ) order by lower(tp.name))
       from target_profiles tp where tp.team_id = ${sql.placeholder("teamId")}), '[]'::json)`;
-    const sprites = sql<SpriteJson[]>`coalesce((
-      select json_agg(json_build_object(
-        'id', s.id, 'name', s.name, 'kind', s.kind, 'width', s.width, 'height', s.height, 'palette', s.palette,
-        'byteSize', s.byte_size, 'version', s.version, 'uploadedByName', coalesce(u.name, u.login),
-        'createdAt', ${epochMs("s.created_at")}, 'updatedAt', ${epochMs("s.updated_at")},
-        'usedBy', coalesce((
-          select json_agg(json_build_object('id', e.id, 'name', e.name, 'deleted', e.deleted_at is not null) order by lower(e.name), e.id)
-          from effects e where e.sprite_id = s.id), '[]'::json)
-      ) order by lower(s.name))
-      from sprites s left join users u on u.id = s.uploaded_by
-      where s.project_id = ${sql.placeholder("projectId")}), '[]'::json)`;
+    const sprites = projectSpritesJson();
     return d
       .select({
         updaterName: updater.name,
@@ -93,13 +109,7 @@ export async function getEffectPageLists(db: Tx, ids: { teamId: string; projectI
   const { updaterName, updaterLogin, profileName, profileVersion, effectVersion, changes, changedAt, profiles, sprites, ...change } = row;
   return {
     profiles,
-    sprites: sprites.map((s) => ({
-      ...s,
-      usedBy: s.usedBy as SpriteUse[],
-      colours: s.palette.length,
-      createdAt: new Date(s.createdAt),
-      updatedAt: new Date(s.updatedAt),
-    })),
+    sprites: spritesFromJson(sprites),
     updatedBy: updaterLogin === null ? null : { name: updaterName, login: updaterLogin },
     // Every column of a change row but the profile's id and who made it is NOT NULL: a null name means no row.
     profileChange:
