@@ -4,19 +4,20 @@
  * app's own bundles, and `Cache-Control: private, no-store` (pages show a signed-in person's data). The whole page
  * is rendered before it is sent (the pages use no streaming), which costs one write instead of dozens.
  */
-import { randomBytes } from "node:crypto";
 import { Writable } from "node:stream";
 import { renderToPipeableStream } from "react-dom/server";
 import { isRouteErrorResponse, ServerRouter, type EntryContext, type HandleErrorFunction } from "react-router";
 import { env } from "./env.server.ts";
 import { log, logError } from "./log.server.ts";
 import { NonceContext } from "./nonce.ts";
+import { randomText } from "./requestContext.server.ts";
 import { documentCsp } from "./security.server.ts";
+import { wholeResponse } from "./serverHandler.server.ts";
 
 export const streamTimeout = 5_000;
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
-  const nonce = randomBytes(16).toString("base64");
+  const nonce = randomText(16, "base64");
   const config = env();
   responseHeaders.set(
     "Content-Security-Policy",
@@ -46,7 +47,7 @@ export default function handleRequest(request: Request, responseStatusCode: numb
         clearTimeout(timer);
         const body = Buffer.concat(chunks);
         responseHeaders.set("Content-Length", String(body.byteLength));
-        resolve(new Response(body, { status, headers: responseHeaders }));
+        resolve(wholeResponse(body, { status, headers: responseHeaders }));
         callback();
       },
     });

@@ -5,7 +5,7 @@
  * it must cope with that.
  */
 import { AsyncLocalStorage } from "node:async_hooks";
-import { randomBytes } from "node:crypto";
+import { randomFillSync } from "node:crypto";
 
 export interface RequestInfo {
   /** Random, URL-safe id of this request: in the log line, the `X-Request-Id` header and any error shown. */
@@ -32,9 +32,30 @@ const KEY = Symbol.for("skewsmith.requestContext");
 const holder = globalThis as unknown as { [KEY]?: AsyncLocalStorage<RequestInfo> };
 const storage: AsyncLocalStorage<RequestInfo> = (holder[KEY] ??= new AsyncLocalStorage<RequestInfo>());
 
+/**
+ * Random bytes for the per-request ids and nonces, drawn from a block the CSPRNG fills 256 ids at a time (as Node's
+ * own randomUUID does): one call to the generator per 256 requests instead of two per request. Each byte is handed
+ * out once.
+ */
+const pool = Buffer.alloc(4096);
+let poolAt = pool.length;
+
+/** `bytes` (at most 64) fresh random bytes as text in `encoding`. */
+export function randomText(bytes: number, encoding: "base64" | "base64url"): string {
+  if (!(Number.isInteger(bytes) && bytes >= 1 && bytes <= 64))
+    throw new RangeError(`bytes must be a whole number from 1 to 64, not ${bytes}`);
+  if (poolAt + bytes > pool.length) {
+    randomFillSync(pool);
+    poolAt = 0;
+  }
+  const text = pool.toString(encoding, poolAt, poolAt + bytes);
+  poolAt += bytes;
+  return text;
+}
+
 /** A new request id: 16 random bytes, base64url (22 characters). */
 export function newRequestId(): string {
-  return randomBytes(16).toString("base64url");
+  return randomText(16, "base64url");
 }
 
 /** Paths whose segments carry secrets (an invitation's token), as they must appear in logs. */

@@ -25,6 +25,23 @@ function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 }
 
+const wholeBodies = new WeakMap<Response, Uint8Array<ArrayBuffer>>();
+
+/**
+ * A response whose body is already in memory (a rendered page): the server sends these bytes in one call instead
+ * of reading them back through the Response's stream (wholeBodyOf). The Response is an ordinary one otherwise.
+ */
+export function wholeResponse(body: Uint8Array<ArrayBuffer>, init: ResponseInit): Response {
+  const response = new Response(body, init);
+  wholeBodies.set(response, body);
+  return response;
+}
+
+/** The bytes of a response made by wholeResponse whose body nobody has read yet; undefined for any other. */
+export function wholeBodyOf(response: Response): Uint8Array<ArrayBuffer> | undefined {
+  return response.bodyUsed ? undefined : wholeBodies.get(response);
+}
+
 /** A refusal made before any route ran: JSON for data and API requests, a small page for a browser. */
 export function refusal(request: Request, status: number, message: string): Response {
   const requestId = currentRequestId();

@@ -109,7 +109,8 @@ describe("reading the person behind a cookie (readUser)", () => {
     expect(verifiedId(flipped, "skewsmith_session", [Buffer.from(secrets[0])])).toBeNull();
     expect(await storage.readUser(value.replace("skewsmith_session", "skewsmith_sessionx"))).toBeNull();
     expect(await storage.readUser("skewsmith_session=garbage%ZZ")).toBeNull();
-    // An expired or ended session opens nothing, even with its valid signature.
+    // An expired or ended session opens nothing, even with its valid signature (and its cookie checked, and
+    // remembered as checked, by the reads above).
     await db
       .update(sessions)
       .set({ expiresAt: new Date(Date.now() - 1000) })

@@ -29,15 +29,21 @@ export function hashSessionId(id: string): string {
  * or not of that simple form (the caller then asks the framework); null when its signature is wrong.
  */
 export function verifiedId(cookieHeader: string, name: string, keys: Buffer[]): string | null | undefined {
-  let raw: string | undefined;
+  const raw = cookieValue(cookieHeader, name);
+  return raw === undefined ? undefined : verifiedValue(raw, keys);
+}
+
+/** The raw value of cookie `name` in a Cookie header (the first one of that name), or undefined. */
+function cookieValue(cookieHeader: string, name: string): string | undefined {
   for (const part of cookieHeader.split(";")) {
     const at = part.indexOf("=");
-    if (at > 0 && part.slice(0, at).trim() === name) {
-      raw = part.slice(at + 1).trim();
-      break;
-    }
+    if (at > 0 && part.slice(0, at).trim() === name) return part.slice(at + 1).trim();
   }
-  if (raw === undefined) return undefined;
+  return undefined;
+}
+
+/** verifiedId for a cookie's raw value. */
+function verifiedValue(raw: string, keys: Buffer[]): string | null | undefined {
   let value: string;
   try {
     value = decodeURIComponent(raw);
@@ -61,6 +67,9 @@ export function verifiedId(cookieHeader: string, name: string, keys: Buffer[]): 
   }
   return typeof id === "string" && /^[A-Za-z0-9_-]{16,128}$/.test(id) ? id : undefined;
 }
+
+/** Signed cookie values remembered as checked, per session storage (about 200 bytes each). */
+const VERIFIED_COOKIES_MAX = 4096;
 
 /** Session storage that can also read the signed-in person behind a Cookie header in one query. */
 export type DbSessionStorage = SessionStorage<SessionData> & {
@@ -124,13 +133,25 @@ export function createDbSessionStorage(database: Db, options: { secrets: string[
     },
   });
   const keys = options.secrets.map((secret) => Buffer.from(secret, "utf8"));
+  // Cookie values whose signature checked out, with their table key: a signed-in person's next requests skip the HMAC
+  // and the hash (the secrets do not change while the process runs; whether the session is still live is the
+  // query's to say). Bounded, the oldest first out.
+  const verified = new Map<string, string>();
   async function sessionKey(cookieHeader: string | null): Promise<string | null> {
     if (!cookieHeader) return null;
-    const fast = verifiedId(cookieHeader, cookie.name, keys);
+    const raw = cookieValue(cookieHeader, cookie.name);
+    const known = raw === undefined ? undefined : verified.get(raw);
+    if (known !== undefined) return known;
+    const fast = raw === undefined ? undefined : verifiedValue(raw, keys);
     if (fast === null) return null; // a bad signature
     const id: unknown = fast ?? (await cookie.parse(cookieHeader));
     if (typeof id !== "string" || id.length === 0) return null;
-    return hashSessionId(id);
+    const idHash = hashSessionId(id);
+    if (fast !== undefined && raw !== undefined) {
+      verified.set(raw, idHash);
+      if (verified.size > VERIFIED_COOKIES_MAX) verified.delete(verified.keys().next().value!);
+    }
+    return idHash;
   }
   async function readUser(cookieHeader: string | null): Promise<User | null> {
     const idHash = await sessionKey(cookieHeader);

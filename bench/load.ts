@@ -31,11 +31,15 @@
  * ratios are printed. --cpu-prof runs the server under `node --cpu-prof` and prints where a
  * render spends its time. A benchmark prints numbers, never verdicts: nothing here passes or fails.
  *
+ * --scale F multiplies every scenario's length (0.5 for a quick look while iterating; a figure to record is measured
+ * at 1); --round-seconds N sets the rounds' length (5 by default). A baseline commit is built once and reused by
+ * later runs (its code does not change).
+ *
  * --save-pages writes one page of each route, as each server answers it, into .tmp/bench/pages/ (to see what a page
  * sends).
  *
  * Run: node --import tsx bench/load.ts [--baseline REF] [--duration 30] [--clients 100] [--cpu-prof] [--only NAME,…]
- *      [--save-pages] [--pg-port PORT]
+ *      [--save-pages] [--pg-port PORT] [--scale F] [--round-seconds N]
  */
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
@@ -67,17 +71,26 @@ const { values: args } = parseArgs({
     only: { type: "string" },
     "save-pages": { type: "boolean", default: false },
     "pg-port": { type: "string", default: "55431" },
+    scale: { type: "string", default: "1" },
+    "round-seconds": { type: "string", default: "5" },
   },
 });
 const DURATION = Number(args.duration);
 const CLIENTS = Number(args.clients);
 const ONLY = args.only ? new Set(args.only.split(",")) : null;
+/** Every scenario's length is multiplied by this (--scale 0.5: half as long, for quick looks while iterating). */
+const SCALE = Number(args.scale);
 /** Length of one round when a baseline and this checkout take turns, in seconds. */
-const ROUND_SECONDS = 5;
+const ROUND_SECONDS = Number(args["round-seconds"]);
+if (!(SCALE > 0 && SCALE <= 10)) throw new Error(`--scale must be a number above 0 and at most 10, not "${args.scale}"`);
+if (!(ROUND_SECONDS >= 1 && ROUND_SECONDS <= 60))
+  throw new Error(`--round-seconds must be a number from 1 to 60, not "${args["round-seconds"]}"`);
 
 interface Target {
   label: string;
   dir: string;
+  /** A baseline commit: its code never changes, so one build of it serves every later run. */
+  fixed?: boolean;
 }
 
 interface World {
@@ -149,16 +162,19 @@ function prepareBaseline(ref: string): Target {
     symlinkSync(path.join(ROOT, "node_modules"), path.join(dir, "node_modules"));
     mkdirSync(path.join(dir, "packages/core/node_modules"), { recursive: true });
   }
-  return { label: `baseline ${sha}`, dir };
+  return { label: `baseline ${sha}`, dir, fixed: true };
 }
 
 function build(target: Target): void {
+  const done = path.join(target.dir, "build/.bench-built");
+  if (target.fixed && existsSync(done)) return log(`${target.label}: built by an earlier run`);
   log(`building ${target.label}`);
   execFileSync(path.join(ROOT, "node_modules/.bin/react-router"), ["build"], {
     cwd: target.dir,
     stdio: ["ignore", "ignore", "inherit"],
     env: { ...process.env, NODE_ENV: "production", SKEWSMITH_BUILD_DIR: "" },
   });
+  if (target.fixed) writeFileSync(done, "");
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -364,9 +380,9 @@ function cpuMs(pid: number): number {
   }
 }
 
-/** CPU used so far by the PostgreSQL backends serving database `name` (their process titles name it). */
-function databaseCpuMs(name: string): number {
-  let total = 0;
+/** CPU used so far by each PostgreSQL backend serving database `name` (their process titles name it), by pid. */
+function databaseCpuByPid(name: string): Map<number, number> {
+  const byPid = new Map<number, number>();
   for (const entry of readdirSync("/proc")) {
     if (!/^\d+$/.test(entry)) continue;
     let title: string;
@@ -375,9 +391,35 @@ function databaseCpuMs(name: string): number {
     } catch {
       continue;
     }
-    if (title.startsWith("postgres: ") && title.split(" ")[2] === name) total += cpuMs(Number(entry));
+    if (title.startsWith("postgres: ") && title.split(" ")[2] === name) byPid.set(Number(entry), cpuMs(Number(entry)));
   }
-  return total;
+  return byPid;
+}
+
+/**
+ * The CPU a database's backends use from now until `stop()`: looked at every half second, so a backend that exits
+ * in between (the pool closes idle connections) keeps what it used up to its last look instead of dropping out of
+ * the sum (which made the figure too low, even negative).
+ */
+function databaseCpuMeter(name: string): { stop(): number } {
+  const first = databaseCpuByPid(name);
+  const last = new Map(first);
+  const look = () => {
+    for (const [pid, ms] of databaseCpuByPid(name)) {
+      if (!first.has(pid)) first.set(pid, 0);
+      last.set(pid, ms);
+    }
+  };
+  const timer = setInterval(look, 500);
+  return {
+    stop() {
+      clearInterval(timer);
+      look();
+      let total = 0;
+      for (const [pid, ms] of last) total += ms - first.get(pid)!;
+      return total;
+    },
+  };
 }
 
 interface Raw {
@@ -403,7 +445,8 @@ async function run(
   const kinds = new Map<string, { sent: number; failed: number }>();
   const sizes = new Map<string, { answers: number; bytes: number }>();
   const rssBefore = server.rss();
-  const cpuBefore = [cpuMs(server.child.pid!), databaseCpuMs(server.database)];
+  const cpuBefore = cpuMs(server.child.pid!);
+  const database = databaseCpuMeter(server.database);
   let next = 0;
   const result = await autocannon({
     url: server.url,
@@ -436,8 +479,8 @@ async function run(
     },
   });
   return {
-    cpuServer: cpuMs(server.child.pid!) - cpuBefore[0],
-    cpuDatabase: databaseCpuMs(server.database) - cpuBefore[1],
+    cpuServer: cpuMs(server.child.pid!) - cpuBefore,
+    cpuDatabase: database.stop(),
     latencies,
     requests: result.requests.total,
     seconds: options.seconds,
@@ -521,13 +564,14 @@ function scenarios(world: World): [string, Parameters<typeof drive>[3]][] {
     if (r < 0.9) return { kind: "documents", path: pick(world.documents) };
     return save();
   };
-  return [
+  const list: [string, Parameters<typeof drive>[3]][] = [
     ["floor", { clients: 10, seconds: 10, next: () => ({ kind: "healthz", path: "/healthz" }), signedIn: false }],
     ["page alone", { clients: 1, seconds: 10, next: page }],
     ["pages @10", { clients: 10, seconds: 20, next: page }],
     ["pages @20", { clients: 20, seconds: 20, next: page }],
     [`mix @${CLIENTS}`, { clients: CLIENTS, seconds: DURATION, next: mix }],
   ];
+  return list.map(([name, options]) => [name, { ...options, seconds: options.seconds * SCALE }]);
 }
 
 function print(label: string, outcomes: Outcome[]): void {

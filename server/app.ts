@@ -22,7 +22,7 @@ import { env } from "../app/env.server.ts";
 import { log, logError } from "../app/log.server.ts";
 import { loggablePath, newRequestId, runWithRequest, type RequestInfo } from "../app/requestContext.server.ts";
 import { commonSecurityHeaders } from "../app/security.server.ts";
-import { createFetchHandler, finishResponse, refusal } from "../app/serverHandler.server.ts";
+import { createFetchHandler, finishResponse, refusal, wholeBodyOf } from "../app/serverHandler.server.ts";
 
 export interface AppOptions {
   mode: "production" | "development";
@@ -234,6 +234,12 @@ async function sendWebResponse(res: ExpressResponse, response: Response, method:
   if (!response.body || method === "HEAD") {
     await response.body?.cancel().catch(() => {});
     res.end();
+    return;
+  }
+  // A rendered page is already in memory: one call, without reading it back through its stream.
+  const whole = wholeBodyOf(response);
+  if (whole) {
+    res.end(whole);
     return;
   }
   try {

@@ -45,10 +45,15 @@ const CACHE_MAX = 32;
 /**
  * Measures the saved effect over its sprite's opaque pixels and its key pixels, as the bench's worker does.
  * `known.spriteVersion` is the sprite's version when the caller has just read it (the effect page lists the project's
- * sprites), saving a query; it must have been read before this call.
+ * sprites), saving a query; it must have been read before this call. `known.state` is `benchState(row)` when the caller
+ * has made it already (reading the document again costs a validation).
  */
-export async function savedDiagnostics(db: Tx, row: EffectRow, known: { spriteVersion?: number } = {}): Promise<SavedDiagnostics> {
-  const state = benchState(row);
+export async function savedDiagnostics(
+  db: Tx,
+  row: EffectRow,
+  known: { spriteVersion?: number; state?: BenchState } = {},
+): Promise<SavedDiagnostics> {
+  const state = known.state ?? benchState(row);
   // The version is read before the picture: a replacement in between is measured under the older key, never the reverse.
   const spriteVersion = state.spriteId ? (known.spriteVersion ?? (await getSpriteVersion(db, state.spriteId))) : null;
   const key = JSON.stringify([row.id, row.version, state, spriteVersion]);

@@ -178,12 +178,30 @@ const DATE = new Intl.DateTimeFormat("en-GB", {
   timeZone: "UTC",
 });
 
+/**
+ * The texts of moments already shown, by milliseconds since 1970: a page lists the same few dozen (activity, effects,
+ * sprites) on every load, and formatting one costs more than the rest of its element. Bounded, the oldest first out.
+ */
+const shown = new Map<number, { iso: string; text: string }>();
+const SHOWN_MAX = 2048;
+
+function moment(date: Date): { iso: string; text: string } {
+  const ms = date.getTime();
+  let texts = shown.get(ms);
+  if (!texts) {
+    texts = { iso: date.toISOString(), text: `${DATE.format(date)} UTC` };
+    shown.set(ms, texts);
+    if (shown.size > SHOWN_MAX) shown.delete(shown.keys().next().value!);
+  }
+  return texts;
+}
+
 /** A moment, in UTC so the server and the browser print the same text. */
 export function Timestamp({ value }: { value: Date | string }) {
-  const date = typeof value === "string" ? new Date(value) : value;
+  const { iso, text } = moment(typeof value === "string" ? new Date(value) : value);
   return (
-    <time dateTime={date.toISOString()} className="num whitespace-nowrap text-ink-300">
-      {DATE.format(date)} UTC
+    <time dateTime={iso} className="num whitespace-nowrap text-ink-300">
+      {text}
     </time>
   );
 }

@@ -6,6 +6,7 @@ import { exportChoiceFrom } from "../bench/exportChoice.ts";
 import { exportDefaultsForProfile } from "../exports/defaults.ts";
 import { BENCH_FIELDS, benchErrors, benchForm, saveForm } from "../bench/form.ts";
 import { benchState, savedDiagnostics } from "../bench/saved.server.ts";
+import { packDiagnostics } from "../bench/savedWire.ts";
 import { viewFromSearch } from "../bench/view.ts";
 import { Bench } from "../components/bench/Bench.tsx";
 import { buttonClass } from "../components/ui.tsx";
@@ -15,8 +16,7 @@ import { requireEffectRole } from "../guards.server.ts";
 import { formText, readForm } from "../http.server.ts";
 import { saveEffectBench } from "../models/effects.server.ts";
 import { DomainError } from "../models/errors.ts";
-import { listSprites } from "../models/sprites.server.ts";
-import { getEffectChanges, listTargetProfiles } from "../models/targetProfiles.server.ts";
+import { getEffectPageLists } from "../models/effectPage.server.ts";
 import { displayName, getUser } from "../models/users.server.ts";
 import { hasRole } from "../roles.ts";
 
@@ -28,13 +28,16 @@ export const handle = { wide: true };
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { team, project, effect, role } = await requireEffectRole(request, params.effectId, "viewer");
   const saved = benchState(effect);
-  const [profiles, sprites, { updatedBy, profileChange }] = await Promise.all([
-    listTargetProfiles(db(), team.id),
-    listSprites(db(), project.id),
-    getEffectChanges(db(), effect.id),
-  ]);
+  const { profiles, sprites, updatedBy, profileChange } = await getEffectPageLists(db(), {
+    teamId: team.id,
+    projectId: project.id,
+    effectId: effect.id,
+  });
   // The sprite's version comes with the project's list, read before its picture is (as savedDiagnostics requires).
-  const diagnostics = await savedDiagnostics(db(), effect, { spriteVersion: sprites.find((s) => s.id === effect.spriteId)?.version });
+  const diagnostics = await savedDiagnostics(db(), effect, {
+    spriteVersion: sprites.find((s) => s.id === effect.spriteId)?.version,
+    state: saved,
+  });
   const frames =
     diagnostics.rows?.length ?? ("list" in saved.document.angles ? saved.document.angles.list.length : saved.document.angles.sweep.frames);
   const profile = profiles.find((p) => p.id === effect.targetProfileId) ?? null;
@@ -47,23 +50,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     role,
     editable,
     saved,
-    profiles: profiles.map((p) => ({
-      id: p.id,
-      name: p.name,
-      canvasWidth: p.canvasWidth,
-      canvasHeight: p.canvasHeight,
-      fixedPointBits: p.fixedPointBits,
-      fixedPointFraction: p.fixedPointFraction,
-      rounding: p.rounding,
-      halfTurn: p.halfTurn,
-      edges: p.edges,
-      columnGroup: p.columnGroup,
-      dialects: p.dialects,
-      labelPrefix: p.labelPrefix,
-      exportOptions: p.exportOptions,
-    })),
+    profiles,
     sprites,
-    diagnostics,
+    diagnostics: packDiagnostics(diagnostics),
     /** The last change of its target profile that reached the effect (who, when, each setting before and after). */
     profileChange,
     exportDefaults: exportChoiceFrom(exportDefaultsForProfile(profile, effect.name), effect.name),

@@ -45,7 +45,6 @@ import {
 } from "../forms.ts";
 import { requireProjectRole } from "../guards.server.ts";
 import { formText, readForm } from "../http.server.ts";
-import { listProjectActivityPage } from "../models/activity.server.ts";
 import {
   createEffect,
   deleteEffect,
@@ -56,19 +55,16 @@ import {
   restoreEffect,
 } from "../models/effects.server.ts";
 import { archiveProject, restoreProject, updateProject } from "../models/projects.server.ts";
-import { listSprites } from "../models/sprites.server.ts";
-import { listTargetProfiles } from "../models/targetProfiles.server.ts";
+import { getProjectPageLists } from "../models/projectPage.server.ts";
 import { hasRole } from "../roles.ts";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.project.name ?? "Project"} · Skewsmith` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { team, project, role } = await requireProjectRole(request, params.projectId, "viewer");
-  const [{ live: effects, deleted }, profiles, sprites, activity] = await Promise.all([
+  const [{ live: effects, deleted }, { profiles, sprites, activity, activityTotal }] = await Promise.all([
     listEffectsAndDeleted(db(), project.id),
-    listTargetProfiles(db(), team.id, project.id),
-    listSprites(db(), project.id),
-    listProjectActivityPage(db(), { teamId: team.id, projectId: project.id }, 1, 12),
+    getProjectPageLists(db(), { teamId: team.id, projectId: project.id }, 12),
   ]);
   return {
     team: { id: team.id, name: team.name },
@@ -83,8 +79,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     deleted: deleted.map((e) => ({ id: e.id, name: e.name, deletedAt: e.deletedAt! })),
     profiles,
     sprites,
-    activity: activity.items,
-    activityTotal: activity.total,
+    activity,
+    activityTotal,
   };
 }
 

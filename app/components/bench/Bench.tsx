@@ -16,6 +16,7 @@ import { usePlayback, useReducedMotion } from "../../bench/usePlayback.ts";
 import { PASS_LABELS, viewHref, ZOOM_MAX, ZOOM_MIN, type BenchView, type Pass } from "../../bench/view.ts";
 import type { loader } from "../../routes/effect.tsx";
 import type { SavedDiagnostics } from "../../bench/saved.server.ts";
+import { unpackDiagnostics } from "../../bench/savedWire.ts";
 import { ProfileChangeNotice } from "../ProfileChangeNotice.tsx";
 import { buttonClass, Crumbs, Notice, PageTitle, Panel, RoleBadge, Timestamp } from "../ui.tsx";
 import { BenchSummary } from "./BenchSummary.tsx";
@@ -44,8 +45,9 @@ export function Bench({ data }: { data: Data }) {
     fallbackData: data.sprites as SpriteChoice[],
     revalidateOnMount: false,
   });
+  const diagnostics = useMemo(() => unpackDiagnostics(data.diagnostics), [data.diagnostics]);
   const saved = useSWR<SavedDiagnostics>(`/effects/${effect.id}/diagnostics.json`, json, {
-    fallbackData: data.diagnostics,
+    fallbackData: diagnostics,
     revalidateOnMount: false,
   });
   const spriteList = useMemo(() => sprites.data ?? [], [sprites.data]);
@@ -65,7 +67,7 @@ export function Bench({ data }: { data: Data }) {
   const [overlays, setOverlays] = useState<Overlays>(NO_OVERLAYS);
   const [pointerMode, setPointerMode] = useState<PointerMode>("view");
   const [align, setAlign] = useState(1);
-  const frames = worker.state.loaded?.frames ?? data.diagnostics.rows?.length ?? 1;
+  const frames = worker.state.loaded?.frames ?? diagnostics.rows?.length ?? 1;
   const frame = Math.min(view.frame, frames - 1);
 
   // Revalidate what SWR holds after a save went through.
