@@ -10,7 +10,7 @@ import { alias } from "drizzle-orm/pg-core";
 import { preparedOnce, type Tx } from "../db/client.server.ts";
 import { effectProfileChanges, effects, users, type TargetProfile } from "../db/schema.ts";
 import type { SpriteListItem, SpriteUse } from "./sprites.server.ts";
-import type { ProfileChangeView } from "./targetProfiles.server.ts";
+import { effectChangeColumns, effectChangesOf, type ProfileChangeView } from "./targetProfiles.server.ts";
 
 /** A target profile as the bench uses it (settings and export defaults). */
 export type EffectPageProfile = Pick<
@@ -85,15 +85,7 @@ export async function getEffectPageLists(db: Tx, ids: { teamId: string; projectI
     const sprites = projectSpritesJson();
     return d
       .select({
-        updaterName: updater.name,
-        updaterLogin: updater.login,
-        profileId: effectProfileChanges.targetProfileId,
-        profileName: effectProfileChanges.profileName,
-        profileVersion: effectProfileChanges.profileVersion,
-        effectVersion: effectProfileChanges.effectVersion,
-        changes: effectProfileChanges.changes,
-        changedAt: effectProfileChanges.changedAt,
-        changedBy: sql<string | null>`coalesce(${users.name}, ${users.login})`,
+        ...effectChangeColumns(updater),
         profiles,
         sprites,
       })
@@ -106,15 +98,6 @@ export async function getEffectPageLists(db: Tx, ids: { teamId: string; projectI
   });
   const [row] = await query.execute(ids);
   if (!row) return { profiles: [], sprites: [], updatedBy: null, profileChange: null };
-  const { updaterName, updaterLogin, profileName, profileVersion, effectVersion, changes, changedAt, profiles, sprites, ...change } = row;
-  return {
-    profiles,
-    sprites: spritesFromJson(sprites),
-    updatedBy: updaterLogin === null ? null : { name: updaterName, login: updaterLogin },
-    // Every column of a change row but the profile's id and who made it is NOT NULL: a null name means no row.
-    profileChange:
-      profileName === null || profileVersion === null || effectVersion === null || changes === null || changedAt === null
-        ? null
-        : { ...change, profileName, profileVersion, effectVersion, changes, changedAt },
-  };
+  const { profiles, sprites, ...changeRow } = row;
+  return { profiles, sprites: spritesFromJson(sprites), ...effectChangesOf(changeRow) };
 }

@@ -578,17 +578,7 @@ export async function getEffectChanges(
   const query = preparedOnce(db, "skewsmith_effect_changes", (d) => {
     const updater = alias(users, "updater");
     return d
-      .select({
-        updaterName: updater.name,
-        updaterLogin: updater.login,
-        profileId: effectProfileChanges.targetProfileId,
-        profileName: effectProfileChanges.profileName,
-        profileVersion: effectProfileChanges.profileVersion,
-        effectVersion: effectProfileChanges.effectVersion,
-        changes: effectProfileChanges.changes,
-        changedAt: effectProfileChanges.changedAt,
-        changedBy: sql<string | null>`coalesce(${users.name}, ${users.login})`,
-      })
+      .select(effectChangeColumns(updater))
       .from(effects)
       .leftJoin(updater, eq(updater.id, effects.updatedBy))
       .leftJoin(effectProfileChanges, eq(effectProfileChanges.effectId, effects.id))
@@ -597,7 +587,37 @@ export async function getEffectChanges(
       .prepare("skewsmith_effect_changes");
   });
   const [row] = await query.execute({ effectId });
-  if (!row) return { updatedBy: null, profileChange: null };
+  return row ? effectChangesOf(row) : { updatedBy: null, profileChange: null };
+}
+
+/**
+ * The columns of who saved an effect last (`updater`, an alias of users joined on effects.updated_by) and of its
+ * last profile change (effect_profile_changes and users joined on it): for a select from effects with those joins.
+ */
+export function effectChangeColumns(updater: ReturnType<typeof alias<typeof users, "updater">>) {
+  return {
+    updaterName: updater.name,
+    updaterLogin: updater.login,
+    profileId: effectProfileChanges.targetProfileId,
+    profileName: effectProfileChanges.profileName,
+    profileVersion: effectProfileChanges.profileVersion,
+    effectVersion: effectProfileChanges.effectVersion,
+    changes: effectProfileChanges.changes,
+    changedAt: effectProfileChanges.changedAt,
+    changedBy: sql<string | null>`coalesce(${users.name}, ${users.login})`,
+  };
+}
+
+/** A row of effectChangeColumns: every column can be null, as the joins are left joins. */
+type EffectChangeRow = { updaterName: string | null; updaterLogin: string | null } & {
+  [K in keyof ProfileChangeView]: ProfileChangeView[K] | null;
+};
+
+/** Who saved last and the last profile change, from a row of effectChangeColumns. */
+export function effectChangesOf(row: EffectChangeRow): {
+  updatedBy: { name: string | null; login: string } | null;
+  profileChange: ProfileChangeView | null;
+} {
   const { updaterName, updaterLogin, profileName, profileVersion, effectVersion, changes, changedAt, ...change } = row;
   return {
     updatedBy: updaterLogin === null ? null : { name: updaterName, login: updaterLogin },
