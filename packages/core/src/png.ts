@@ -191,7 +191,10 @@ function inflateNode(zlib: typeof NodeZlib, bytes: Uint8Array, idat: readonly Ch
     throw new PngError(`image data: not valid zlib data (${error instanceof Error ? error.message : String(error)})`);
   }
   if (raw.length !== expected) throw new PngError(shortMessage(raw.length, expected));
-  return raw;
+  // A small output is a slice of Node's shared buffer pool: the picture gets a copy in a buffer of its own (a Buffer's
+  // slice() would not copy), so that nothing done with its pixels' buffer (a transfer to a worker, a view over the
+  // whole buffer) reaches other buffers of the pool.
+  return raw.byteOffset === 0 && raw.buffer.byteLength - raw.byteLength <= 1 ? raw : new Uint8Array(raw);
 }
 
 /**

@@ -261,6 +261,32 @@ describe("encodePng writes the same bytes as the earlier writer (fast-png's enco
   });
 });
 
+describe("a decoded picture owns its pixels' buffer", () => {
+  // Node hands out small buffers as slices of one shared pool (Node's Buffer documentation, "Buffer.poolSize"): a
+  // picture whose pixels sat in it would share its buffer with unrelated data.
+  for (const [width, height] of [
+    [1, 1],
+    [4, 4],
+    [16, 16],
+    [64, 64],
+  ]) {
+    it(`${width} × ${height}, RGBA and indexed`, () => {
+      const rgba: RgbaImage = { kind: "rgba", width, height, data: new Uint8Array(width * height * 4).map((_, i) => (i * 37) & 255) };
+      const palette: Rgba[] = [
+        [0, 0, 0, 0],
+        [200, 40, 40, 255],
+      ];
+      const indexed: IndexedImage = { kind: "indexed", width, height, data: new Uint8Array(width * height).map((_, i) => i & 1), palette };
+      for (const image of [rgba, indexed]) {
+        const decoded = decodePng(encodePng(image));
+        expect(decoded.data).toEqual(image.data);
+        expect(decoded.data.byteOffset).toBe(0);
+        expect(decoded.data.buffer.byteLength).toBeLessThanOrEqual(decoded.data.byteLength + height + 1);
+      }
+    });
+  }
+});
+
 describe("pngHeader reads only the signature and IHDR", () => {
   it("gives the declared size, depth and colour type, even of a file cut right after IHDR", async () => {
     const png = new Uint8Array(
