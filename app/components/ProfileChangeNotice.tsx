@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { Timestamp } from "./ui.tsx";
 
-/** What the effect page needs of getProfileChange (app/models/targetProfiles.server.ts); dates may arrive as strings. */
+/** What the effect page needs of getProfileChange (app/models/effectChanges.server.ts); dates may arrive as strings. */
 export interface ProfileChangeNoticeView {
   profileId: string | null;
   profileName: string;

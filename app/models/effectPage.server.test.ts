@@ -6,7 +6,8 @@ import { compassRose } from "../demo/art.ts";
 import { getEffectPageLists } from "./effectPage.server.ts";
 import { deleteEffect } from "./effects.server.ts";
 import { listSprites, renameSprite } from "./sprites.server.ts";
-import { getEffectChanges, listTargetProfiles, updateTargetProfile } from "./targetProfiles.server.ts";
+import { getEffectChanges } from "./effectChanges.server.ts";
+import { listTargetProfiles, updateTargetProfile } from "./targetProfiles.server.ts";
 
 const db = testDb();
 afterAll(() => db.$client.end());

@@ -10,7 +10,7 @@ import { alias } from "drizzle-orm/pg-core";
 import { preparedOnce, type Tx } from "../db/client.server.ts";
 import { effectProfileChanges, effects, users, type TargetProfile } from "../db/schema.ts";
 import type { SpriteListItem, SpriteUse } from "./sprites.server.ts";
-import { effectChangeColumns, effectChangesOf, type ProfileChangeView } from "./targetProfiles.server.ts";
+import { effectChangeColumns, effectChangesOf, type ProfileChangeView } from "./effectChanges.server.ts";
 
 /** A target profile as the bench uses it (settings and export defaults). */
 export type EffectPageProfile = Pick<

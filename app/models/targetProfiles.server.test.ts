@@ -20,11 +20,11 @@ import {
   duplicateTargetProfile,
   exportDefaultsForEffect,
   followProfile,
-  getProfileChange,
   getTargetProfile,
   listProfileEffects,
   updateTargetProfile,
 } from "./targetProfiles.server.ts";
+import { getProfileChange } from "./effectChanges.server.ts";
 
 const db = testDb();
 afterAll(() => db.$client.end());
