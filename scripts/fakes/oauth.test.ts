@@ -54,4 +54,10 @@ describe("the local GitHub stand-in", () => {
     expect((await fetch(`${fake.apiUrl}/user`)).status).toBe(401);
     expect((await fetch(`${fake.apiUrl}/user`, { headers: { Authorization: "Bearer made-up" } })).status).toBe(401);
   });
+
+  it("answers a browser's icon request with no content, and any other unknown path with 404", async () => {
+    const icon = await fetch(`${fake.url}/favicon.ico`);
+    expect(icon.status).toBe(204);
+    expect((await fetch(`${fake.url}/no-such-page`)).status).toBe(404);
+  });
 });

@@ -194,6 +194,11 @@ export async function startFakeGitHub(options: FakeGitHubOptions): Promise<FakeG
       }
       if (url.pathname === "/" && req.method === "GET")
         return send(res, 200, "Local GitHub sign-in stand-in for Skewsmith (development and tests only).\n", "text/plain; charset=utf-8");
+      // The browser asks every page's origin for an icon; the stand-in has none to show, and says so without an error.
+      if (url.pathname === "/favicon.ico" && req.method === "GET") {
+        res.writeHead(204).end();
+        return;
+      }
       return json(res, 404, { message: "Not Found" });
     } catch (error) {
       return json(res, 500, { message: (error as Error).message });
