@@ -6,7 +6,9 @@
  */
 import { decodePng, exportBudget, exportBundle, type Image } from "@skewsmith/core";
 import { frameDisplay } from "./display.ts";
-import { FramePainter, TrackDiagnosis, fitAdvice, outline, prepareSource } from "./engine.ts";
+import { FramePainter } from "./framePainter.ts";
+import { fitAdvice, outline, prepareSource } from "./source.ts";
+import { TrackDiagnosis } from "./trackDiagnosis.ts";
 import type { FromWorker, ToWorker } from "./protocol.ts";
 
 declare const self: DedicatedWorkerGlobalScope;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { DISPLAY_MAX_PIXELS, errorShading, frameDisplay, zoomPixels } from "./display.ts";
-import type { FramePicture } from "./engine.ts";
+import type { FramePicture } from "./framePainter.ts";
 
 /** Nearest-neighbour zoom written the plain way: output pixel (x, y) is source pixel (⌊x / z⌋, ⌊y / z⌋). */
 function naiveZoom(rgba: Uint8ClampedArray, w: number, h: number, z: number): number[] {

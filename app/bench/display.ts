@@ -2,7 +2,7 @@
  * A frame's pixels as the preview shows them: error shading, and the integer zoom done in the worker, so the page
  * draws a frame with one putImageData. Plain typed-array code (no DOM), shared by the worker, the page and bench/.
  */
-import type { FramePicture } from "./engine.ts";
+import type { FramePicture } from "./framePainter.ts";
 
 /** Error shading: the upper bound of each band in pixels and its colour (a diverging blue-yellow-red scale; ColorBrewer RdYlBu, from memory). */
 export const ERROR_BANDS: readonly { below: number; label: string; rgb: [number, number, number] }[] = [

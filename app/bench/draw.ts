@@ -3,7 +3,7 @@
  * person turned on. Pure canvas 2D code, shared by the preview and the browser benchmark (bench/).
  */
 import { errorShading, type FrameDisplay } from "./display.ts";
-import type { FramePicture } from "./engine.ts";
+import type { FramePicture } from "./framePainter.ts";
 
 export { ERROR_BANDS } from "./display.ts";
 

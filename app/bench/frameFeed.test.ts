@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import type { FramePicture } from "./engine.ts";
+import type { FramePicture } from "./framePainter.ts";
 import { FrameFeed, recyclable, type FeedWant } from "./frameFeed.ts";
 import type { FrameAnswer, FrameAsk } from "./useBenchWorker.ts";
 

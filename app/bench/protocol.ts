@@ -2,7 +2,8 @@
 import type { BudgetReport, CanvasFit, Effect, ElementType, ExportOptionsInput } from "@skewsmith/core";
 import type { FrameDisplay } from "./display.ts";
 import type { KeyPixel } from "./draft.ts";
-import type { ColourCount, FramePicture, FrameRow, FrameWants } from "./engine.ts";
+import type { ColourCount, FramePicture, FrameWants } from "./framePainter.ts";
+import type { FrameRow } from "./trackDiagnosis.ts";
 import type { Pass } from "./view.ts";
 
 /** What the page asks of the worker. */

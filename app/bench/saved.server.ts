@@ -5,7 +5,8 @@ import type { EffectRow } from "../db/schema.ts";
 import { validDocument } from "../models/effects.server.ts";
 import { getSpriteFile, getSpriteVersion } from "../models/sprites.server.ts";
 import type { BenchState } from "./draft.ts";
-import { diagnosisCost, prepareSource, TrackDiagnosis, type FrameRow } from "./engine.ts";
+import { prepareSource } from "./source.ts";
+import { diagnosisCost, TrackDiagnosis, type FrameRow } from "./trackDiagnosis.ts";
 
 /** Most pixels × frames the server measures for a page or a JSON answer (about a second of work); beyond it the browser does. */
 export const SERVER_DIAGNOSIS_MAX = 64 * 1024 * 1024;

@@ -1,7 +1,8 @@
 import { parseEffect } from "@skewsmith/core";
 import { describe, expect, it } from "vitest";
 import { compassRose } from "../demo/art.ts";
-import { prepareSource, TrackDiagnosis } from "./engine.ts";
+import { prepareSource } from "./source.ts";
+import { TrackDiagnosis } from "./trackDiagnosis.ts";
 import type { SavedDiagnostics } from "./saved.server.ts";
 import { packDiagnostics, unpackDiagnostics } from "./savedWire.ts";
 

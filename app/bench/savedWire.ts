@@ -5,7 +5,7 @@
  * per cached answer. The rows are plain numbers, booleans and nulls, so JSON carries them whole (the diagnostics
  * JSON route sends the same rows as JSON).
  */
-import type { FrameRow } from "./engine.ts";
+import type { FrameRow } from "./trackDiagnosis.ts";
 import type { SavedDiagnostics } from "./saved.server.ts";
 
 /** Every field of a row, in the order a packed row lists them. */

@@ -1,7 +1,8 @@
 /** The page's side of the bench worker: one worker per bench, its results as React state, frames and exports as promises. */
 import type { BudgetReport, CanvasFit, Effect, ExportOptionsInput } from "@skewsmith/core";
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
-import type { FramePicture, FrameRow, FrameWants } from "./engine.ts";
+import type { FramePicture, FrameWants } from "./framePainter.ts";
+import type { FrameRow } from "./trackDiagnosis.ts";
 import type { FrameDisplay } from "./display.ts";
 import { recyclable } from "./frameFeed.ts";
 import type { ExportFile, FromWorker, Loaded, ToWorker } from "./protocol.ts";

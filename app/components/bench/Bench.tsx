@@ -9,7 +9,7 @@ import useSWR from "swr";
 import type { KeyPixel } from "../../bench/draft.ts";
 import { NO_OVERLAYS, type Overlays } from "../../bench/draw.ts";
 import { growToFit } from "../../bench/fit.ts";
-import type { FrameRow } from "../../bench/engine.ts";
+import type { FrameRow } from "../../bench/trackDiagnosis.ts";
 import { useBenchWorker } from "../../bench/useBenchWorker.ts";
 import { useFrameFeed } from "../../bench/useFrameFeed.ts";
 import { usePlayback, useReducedMotion } from "../../bench/usePlayback.ts";

@@ -3,7 +3,7 @@
  * canvas-fit advice with one click to grow the canvas (moving the pivot and the sprite with it).
  */
 import type { CanvasFit, Effect } from "@skewsmith/core";
-import type { FrameRow } from "../../bench/engine.ts";
+import type { FrameRow } from "../../bench/trackDiagnosis.ts";
 import { growToFit } from "../../bench/fit.ts";
 import { qNotation } from "../../effects/display.ts";
 import { buttonClass } from "../ui.tsx";

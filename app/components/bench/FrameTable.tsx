@@ -1,6 +1,6 @@
 /** The per-frame table: angles, flip, coefficients, errors, wrapped, clipped, saturated, key pixels; sortable, a row jumps there. */
 import { memo, useEffect, useMemo, useRef, useState, useSyncExternalStore } from "react";
-import type { FrameRow } from "../../bench/engine.ts";
+import type { FrameRow } from "../../bench/trackDiagnosis.ts";
 
 type SortKey = "index" | "written" | "alpha" | "beta" | "maxErrorPx" | "meanErrorPx" | "wrapped" | "clipped" | "keyMaxErrorPx" | "keyApart";
 

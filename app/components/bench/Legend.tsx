@@ -1,6 +1,6 @@
 /** What the overlays' colours and marks mean, shown for the overlays that are on. */
 import { ERROR_BANDS, MARK_COLOURS, type Overlays } from "../../bench/draw.ts";
-import type { FramePicture } from "../../bench/engine.ts";
+import type { FramePicture } from "../../bench/framePainter.ts";
 
 function Swatch({ colour, outline }: { colour: string; outline?: boolean }) {
   return (

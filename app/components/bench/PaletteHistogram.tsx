@@ -1,5 +1,5 @@
 /** The frame's colours beside the source's: each pass only moves pixels, so with wrap every count must match. */
-import type { ColourCount } from "../../bench/engine.ts";
+import type { ColourCount } from "../../bench/framePainter.ts";
 
 const MAX_ROWS = 16;
 

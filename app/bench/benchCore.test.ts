@@ -1,7 +1,9 @@
 import { canvasFit, compileShifts, frameDiagnostics, parseEffect, renderImage, type IndexedImage } from "@skewsmith/core";
 import { describe, expect, it } from "vitest";
 import { compassRose } from "../demo/art.ts";
-import { FramePainter, outline, prepareSource, TrackDiagnosis } from "./engine.ts";
+import { FramePainter } from "./framePainter.ts";
+import { outline, prepareSource } from "./source.ts";
+import { TrackDiagnosis } from "./trackDiagnosis.ts";
 import { exportDefaultsForProfile } from "../exports/defaults.ts";
 import { exportChoiceFrom, exportInput, exportZipHref } from "./exportChoice.ts";
 import { growToFit } from "./fit.ts";
