@@ -1,6 +1,6 @@
 import { Zip, deflateSync, type ZipInputFile } from "fflate";
-import type * as NodeZlib from "node:zlib";
 import { crc32 } from "../crc32.ts";
+import { nodeZlib } from "../nodeZlib.ts";
 
 /**
  * Deflate level of every bundle's zip: 1. A bundle is text tables that a build unpacks right away or a person downloads
@@ -9,12 +9,6 @@ import { crc32 } from "../crc32.ts";
  * 0.42 s; fflate in JavaScript takes six times as long at either level).
  */
 const ZIP_LEVEL = 1;
-
-/** Node's zlib when the core runs on Node (`process.getBuiltinModule`, Node 20.16 and later), or undefined elsewhere. */
-function nodeZlib(): typeof NodeZlib | undefined {
-  const p = (globalThis as { process?: { getBuiltinModule?: (id: string) => unknown } }).process;
-  return p?.getBuiltinModule?.("node:zlib") as typeof NodeZlib | undefined;
-}
 
 /** How the zip's entries are compressed: raw deflate (RFC 1951) and the CRC-32 of the uncompressed bytes. */
 export interface ZipCodec {
