@@ -12,7 +12,7 @@ const rose = compassRose(16);
 const effect = (patch: Record<string, unknown> = {}) =>
   parseEffect({ canvas: { width: 20, height: 18 }, pivot: { x: 10, y: 9 }, angles: { sweep: { from: 0, to: 360, frames: 24 } }, ...patch });
 
-describe("the bench's engine", () => {
+describe("the bench's computing (source, track diagnosis, frame painter)", () => {
   it("measures every frame with core's frameDiagnostics over the sprite's opaque pixels", () => {
     const e = effect();
     const source = prepareSource(e, rose, null, null, []);

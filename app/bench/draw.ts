@@ -39,7 +39,7 @@ export interface DrawInput {
   /** θn of the frame, for the ideal outline. */
   degrees: number;
   pivot: { x: number; y: number };
-  /** The counted pixels' outline, [x0, y0, x1, y1, …] in canvas pixels (see engine's outline). */
+  /** The counted pixels' outline, [x0, y0, x1, y1, …] in canvas pixels (see outline in source.ts). */
   outline: Float32Array | null;
   overlays: Overlays;
   /** The frame's pixels already zoomed (and shaded) by the worker; drawn with one putImageData when it matches. */

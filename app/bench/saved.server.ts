@@ -1,4 +1,4 @@
-/** The saved effect as the bench loads it, and its diagnostics computed on the server by the same engine as the worker. */
+/** The saved effect as the bench loads it, and its diagnostics computed on the server by the same modules as the worker (source.ts, trackDiagnosis.ts). */
 import { decodePng } from "@skewsmith/core";
 import type { Tx } from "../db/client.server.ts";
 import type { EffectRow } from "../db/schema.ts";

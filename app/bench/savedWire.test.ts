@@ -21,7 +21,7 @@ function diagnosed(keys: [number, number][]): SavedDiagnostics {
 const overTheWire = <T>(value: T): T => JSON.parse(JSON.stringify(value)) as T;
 
 describe("the effect page's packed diagnostics", () => {
-  it("give the browser the engine's rows, every field, with and without key pixels", () => {
+  it("give the browser the track diagnosis's rows, every field, with and without key pixels", () => {
     for (const keys of [
       [],
       [
