@@ -3,7 +3,7 @@
  * and saves; this composes the panels and keeps the view (frame, pass, zoom) in the address.
  */
 import type { CanvasFit } from "@skewsmith/core";
-import { useCallback, useEffect, useMemo, useState, type KeyboardEvent } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { Link } from "react-router";
 import useSWR from "swr";
 import type { KeyPixel } from "../../bench/draft.ts";
@@ -12,8 +12,8 @@ import { growToFit } from "../../bench/fit.ts";
 import type { FrameRow } from "../../bench/trackDiagnosis.ts";
 import { useBenchWorker } from "../../bench/useBenchWorker.ts";
 import { useFrameFeed } from "../../bench/useFrameFeed.ts";
-import { usePlayback, useReducedMotion } from "../../bench/usePlayback.ts";
-import { PASS_LABELS, viewHref, ZOOM_MAX, ZOOM_MIN, type BenchView, type Pass } from "../../bench/view.ts";
+import { useReducedMotion } from "../../bench/usePlayback.ts";
+import { PASS_LABELS } from "../../bench/view.ts";
 import type { loader } from "../../routes/effect.tsx";
 import type { SavedDiagnostics } from "../../bench/saved.server.ts";
 import { unpackDiagnostics } from "../../bench/savedWire.ts";
@@ -30,6 +30,7 @@ import { PlayerControls, REDUCED_MOTION_MAX_RATE } from "./PlayerControls.tsx";
 import { PreviewCanvas } from "./PreviewCanvas.tsx";
 import { SettingsForm, type PointerMode, type SpriteChoice } from "./SettingsForm.tsx";
 import { useBenchDraft } from "./useBenchDraft.ts";
+import { useBenchView } from "./useBenchView.ts";
 
 type Data = Awaited<ReturnType<typeof loader>>;
 
@@ -61,14 +62,14 @@ export function Bench({ data }: { data: Data }) {
   const worker = useBenchWorker();
   const reducedMotion = useReducedMotion();
 
-  const [view, setView] = useState<BenchView>(data.view);
-  const [playing, setPlaying] = useState(false);
   const [rate, setRate] = useState(50);
   const [overlays, setOverlays] = useState<Overlays>(NO_OVERLAYS);
   const [pointerMode, setPointerMode] = useState<PointerMode>("view");
   const [align, setAlign] = useState(1);
   const frames = worker.state.loaded?.frames ?? diagnostics.rows?.length ?? 1;
-  const frame = Math.min(view.frame, frames - 1);
+  // Playback runs at the chosen rate, held lower under reduced motion.
+  const shownRate = reducedMotion ? Math.min(rate, REDUCED_MOTION_MAX_RATE) : rate;
+  const { view, frame, playing, setPlaying, setPass, setZoom, jump, onKey } = useBenchView(data.view, frames, shownRate);
 
   // Revalidate what SWR holds after a save went through.
   useEffect(() => {
@@ -121,51 +122,6 @@ export function Bench({ data }: { data: Data }) {
         }
       : null,
   );
-
-  // The address follows the view (replaced, not pushed), except while playing.
-  useEffect(() => {
-    if (playing) return;
-    const href = viewHref(window.location, { ...view, frame });
-    if (href !== `${window.location.pathname}${window.location.search}${window.location.hash}`)
-      window.history.replaceState(window.history.state, "", href);
-  }, [view, frame, playing]);
-
-  // Playback: the frame advances at the chosen rate (held lower under reduced motion).
-  const shownRate = reducedMotion ? Math.min(rate, REDUCED_MOTION_MAX_RATE) : rate;
-  const advance = useCallback(
-    (steps: number) => setView((v) => ({ ...v, frame: (Math.min(v.frame, frames - 1) + steps) % frames })),
-    [frames],
-  );
-  usePlayback(playing, shownRate, advance);
-
-  const setFrame = useCallback((f: number) => setView((v) => ({ ...v, frame: Math.max(0, Math.min(frames - 1, f)) })), [frames]);
-  const setPass = (pass: Pass) => setView((v) => ({ ...v, pass }));
-  const setZoom = (zoom: number) => setView((v) => ({ ...v, zoom: Math.max(ZOOM_MIN, Math.min(ZOOM_MAX, zoom)) }));
-  const jump = useCallback(
-    (f: number) => {
-      setPlaying(false);
-      setFrame(f);
-    },
-    [setFrame],
-  );
-
-  const onKey = (event: KeyboardEvent<HTMLCanvasElement>) => {
-    const actions: Record<string, () => void> = {
-      ArrowLeft: () => jump(frame === 0 ? frames - 1 : frame - 1),
-      ArrowRight: () => jump((frame + 1) % frames),
-      ArrowUp: () => setPass(Math.min(3, view.pass + 1) as Pass),
-      ArrowDown: () => setPass(Math.max(0, view.pass - 1) as Pass),
-      "+": () => setZoom(view.zoom + 1),
-      "=": () => setZoom(view.zoom + 1),
-      "-": () => setZoom(view.zoom - 1),
-      " ": () => setPlaying((p) => !p),
-    };
-    const act = actions[event.key];
-    if (act) {
-      event.preventDefault();
-      act();
-    }
-  };
 
   const loaded = worker.state.loaded;
   const placement = loaded?.sprite?.placement ?? null;
