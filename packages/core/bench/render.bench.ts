@@ -187,6 +187,20 @@ for (const degrees of ANGLES) {
   naive.kept = `${share(naiveKept)}; ${((100 * naiveKept) / land).toFixed(2)}% of the ${land} landing on the frame`;
 }
 
+// Every angle (issue 10, item 6: the floor ratio holds at every angle, not only the three above): the render alone at
+// each of these, interleaved with the rest: every 4° from 1° to 89°, the same turned the other way, the quarter turn and
+// past it, where a frame is the half-turn flip and a shear by θ − 180°.
+const QUADRANT = Array.from({ length: 23 }, (_, i) => 1 + 4 * i);
+const SWEEP = [0.5, ...QUADRANT, ...QUADRANT.map((a) => -a), 90, 91, 100, 120, 135, 150, 170, 179.5, -135];
+const sweep: { degrees: number; render: Case }[] = [];
+for (const degrees of SWEEP) {
+  const effect = effectAt(degrees);
+  const frame = compileFrame(effect, 0, degrees);
+  const render: Case = { name: `${degrees}°`, run: () => renderer.render(source, frame, effect), times: [] };
+  cases.push(render);
+  sweep.push({ degrees, render });
+}
+
 function share(n: number): string {
   return `${n} (${((100 * n) / N).toFixed(2)}%)`;
 }
@@ -293,3 +307,20 @@ const line = (r: readonly string[]) =>
 console.log(line(header));
 console.log(widths.map((w) => "-".repeat(w)).join("  "));
 for (const r of rows) console.log(line(r).trimEnd());
+
+console.log("");
+console.log(`Every angle: the three-shear render alone at ${SWEEP.length} angles, in the same rounds; ÷ floor as above.`);
+const sweepRows = sweep.map(({ render }) => {
+  const ms = median(render.times);
+  return { name: render.name, ms, ratio: ms / floorMs };
+});
+const perLine = 6;
+for (let i = 0; i < sweepRows.length; i += perLine)
+  console.log(
+    sweepRows
+      .slice(i, i + perLine)
+      .map((r) => `${r.name.padStart(6)} ${r.ms.toFixed(2).padStart(6)} ms ${r.ratio.toFixed(2).padStart(5)}×`)
+      .join("   "),
+  );
+const worst = sweepRows.reduce((a, b) => (b.ratio > a.ratio ? b : a));
+console.log(`Highest: ${worst.ratio.toFixed(2)}× the floor at ${worst.name}.`);

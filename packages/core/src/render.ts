@@ -44,7 +44,7 @@ const STRIP_SPAN_ROWS = 640;
  * Draws frames exactly as the target does (spec §5), reusing two scratch planes and a few per-line tables across calls.
  *
  * Rows move as block copies. The column pass is a row-major gather, dst[r][c] = src[r − v[c]][c], in strips of columns,
- * four rows at a time where they read alike; a full render also applies the second row pass while it stores, so the
+ * 32 rows at a time where they read alike; a full render also applies the second row pass while it stores, so the
  * frame takes one copy and one gather.
  */
 export class Renderer<T extends PixelData> {
@@ -54,16 +54,20 @@ export class Renderer<T extends PixelData> {
   /** The second own plane, made on the first render that needs it (renderInto never does). */
   private bPlane: T | null = null;
   private readonly type: Ctor<T>;
-  /** The gathers from plane a into plane b, one row and four rows at a time: this renderer's own compiled copies (see ownGather). */
+  /** The gathers from plane a into plane b, one row and GROUP rows at a time: this renderer's own compiled copies (see ownGather). */
   private ownGather: Gathers | null | undefined = undefined;
   /** Per column c: its shift t reduced into [−H, H] (wrap: the remainder of v[c] by H; clip: clamped). */
   private readonly colShift: Int32Array;
   /** Per column c: c − t·W; adding r·W gives the index of the source pixel that row r of column c takes. */
   private readonly colOff: Int32Array;
   private readonly stripWidth: number;
-  /** A group of four rows: where its columns are cut, and each row's destination offset in the current cut. */
-  private readonly cuts = new Int32Array(10);
+  /** A group of rows: where its columns are cut, and each row's destination offset in the current cut. */
+  private readonly cuts = new Int32Array(3 * GROUP + 2);
   private readonly rowDst = new Int32Array(GROUP);
+  private readonly rowSrc = new Int32Array(GROUP);
+  /** Per row of a group whose strip crosses an edge: where its columns start reading inside, and past it (see piece). */
+  private readonly rowIn = new Int32Array(GROUP);
+  private readonly rowOut = new Int32Array(GROUP);
 
   /** Makes a renderer for `width` × `height` planes of the given element type (Uint8Array for indices, Uint32Array for RGBA). */
   constructor(width: number, height: number, type: Ctor<T>) {
@@ -203,9 +207,9 @@ export class Renderer<T extends PixelData> {
   }
 
   /**
-   * Column pass, dst[r][c] = src[r − v[c]][c] with the edge rule, as a row-major gather in strips of columns, four rows
-   * at a time (group) in strips that climb gently. With `h` it also does the second row pass while storing: row r of the
-   * result is written shifted by h[r] (spec §5 step 4).
+   * Column pass, dst[r][c] = src[r − v[c]][c] with the edge rule, as a row-major gather in strips of columns, GROUP rows
+   * at a time where they read alike (group), else row by row (piece). With `h` it also does the second row pass while
+   * storing: row r of the result is written shifted by h[r] (spec §5 step 4).
    */
   private gather(src: T, dst: T, v: ArrayLike<number>, h: ArrayLike<number> | undefined, clip: boolean): void {
     const W = this.width;
@@ -219,8 +223,8 @@ export class Renderer<T extends PixelData> {
       colOff[c] = c - t * W;
     }
     const own = src === this.a && dst === this.bPlane;
-    if (own && this.ownGather === undefined) this.ownGather = ownGather(src, dst, colOff, W);
-    const { one: run, four } = own && this.ownGather ? this.ownGather : gatherFor(src, dst, colOff, W);
+    if (own && this.ownGather === undefined) this.ownGather = ownGather(src, dst, colOff);
+    const { one: run, rows } = own && this.ownGather ? this.ownGather : gatherFor(src, dst, colOff);
     for (let c0 = 0; c0 < W;) {
       // Grow the strip while it stays narrow enough and its shifts span few enough source rows.
       let tMin = colShift[c0];
@@ -239,29 +243,26 @@ export class Renderer<T extends PixelData> {
         if (t > colShift[c1 - 1]) falling = false;
       }
       const strip: Strip = { tMin, tMax, order: rising ? 1 : falling ? -1 : 0 };
-      const grouped = tMax - tMin < GROUP_SLOPE * (c1 - c0);
-      for (let r = 0, o = 0; r < H; r++, o += W) {
-        if (grouped && r + GROUP <= H && this.group(dst, run, four, strip, h, r, o, c0, c1, clip)) {
-          r += GROUP - 1;
-          o += (GROUP - 1) * W;
-          continue;
+      // Falling strips go from the bottom row up: measured on a 4K RGBA frame against the same strips top down, a sixth
+      // less time from −40° to −50° and at 135° (the angles where the top-down walk was slowest), within a few percent
+      // elsewhere.
+      if (strip.order < 0) {
+        for (let r = H; r > 0;) {
+          if (r - GROUP >= 0 && this.group(dst, run, rows, strip, h, r - GROUP, (r - GROUP) * W, c0, c1, clip)) {
+            r -= GROUP;
+            continue;
+          }
+          r--;
+          this.row(src, dst, run, strip, h, r, r * W, c0, c1, clip);
         }
-        if (h === undefined) {
-          this.piece(src, dst, run, strip, r, o, c0, c1, clip);
-          continue;
-        }
-        const s = h[r];
-        if (clip) {
-          // Columns that the second row pass moves off the canvas are dropped; the uncovered part is filled below.
-          if (s >= W || s <= -W) continue;
-          const lo = s < 0 ? -s : 0;
-          const hi = s > 0 ? W - s : W;
-          this.piece(src, dst, run, strip, r, o + s, lo > c0 ? lo : c0, hi < c1 ? hi : c1, clip);
-        } else {
-          const k = mod(s, W);
-          const split = W - k;
-          this.piece(src, dst, run, strip, r, o + k, c0, split < c1 ? split : c1, clip);
-          this.piece(src, dst, run, strip, r, o + k - W, split > c0 ? split : c0, c1, clip);
+      } else {
+        for (let r = 0; r < H;) {
+          if (r + GROUP <= H && this.group(dst, run, rows, strip, h, r, r * W, c0, c1, clip)) {
+            r += GROUP;
+            continue;
+          }
+          this.row(src, dst, run, strip, h, r, r * W, c0, c1, clip);
+          r++;
         }
       }
       c0 = c1;
@@ -276,16 +277,50 @@ export class Renderer<T extends PixelData> {
     }
   }
 
+  /** Row r (at offset o) of a strip, columns c0 … c1−1, with the second row pass's shift of that row when `h` is given. */
+  private row(
+    src: T,
+    dst: T,
+    run: Gather,
+    strip: Strip,
+    h: ArrayLike<number> | undefined,
+    r: number,
+    o: number,
+    c0: number,
+    c1: number,
+    clip: boolean,
+  ): void {
+    if (h === undefined) {
+      this.piece(src, dst, run, strip, r, o, c0, c1, clip);
+      return;
+    }
+    const W = this.width;
+    const s = h[r];
+    if (clip) {
+      // Columns that the second row pass moves off the canvas are dropped; the uncovered part is filled by gather.
+      if (s >= W || s <= -W) return;
+      const lo = s < 0 ? -s : 0;
+      const hi = s > 0 ? W - s : W;
+      this.piece(src, dst, run, strip, r, o + s, lo > c0 ? lo : c0, hi < c1 ? hi : c1, clip);
+    } else {
+      const k = mod(s, W);
+      const split = W - k;
+      this.piece(src, dst, run, strip, r, o + k, c0, split < c1 ? split : c1, clip);
+      this.piece(src, dst, run, strip, r, o + k - W, split > c0 ? split : c0, c1, clip);
+    }
+  }
+
   /**
-   * Rows r … r+3, columns c0 … c1−1 of a strip, four rows per column read, when all four read their source rows the
-   * same way (all inside, or in wrap all across the same edge); false, having done nothing, when they do not. The second
-   * row pass (with `h`) moves each row by its own shift, so the columns are cut where any of the four rows wraps round
-   * (wrap) or leaves the canvas (clip); in a cut where all four rows are stored, four at once, else row by row.
+   * Rows r … r+GROUP−1, columns c0 … c1−1 of a strip, all rows of a column at once. Each row's columns are cut where
+   * its reads cross an edge (as in piece: wrap reads a row H away, clip stores 0) and, with the second row pass (`h`),
+   * where its store wraps round (wrap) or leaves the canvas (clip); a cut where every row reads and stores goes all rows
+   * at once, others row by row. False, having done nothing, for a strip whose shifts go both ways across an edge, or a
+   * clip strip wholly off the canvas for these rows (piece fills those).
    */
   private group(
     dst: T,
     run: Gather,
-    four: Gather4,
+    rows: GatherRows,
     strip: Strip,
     h: ArrayLike<number> | undefined,
     r: number,
@@ -296,25 +331,22 @@ export class Renderer<T extends PixelData> {
   ): boolean {
     const W = this.width;
     const H = this.height;
-    const { tMin, tMax } = strip;
+    const N = W * H;
+    const { tMin, tMax, order } = strip;
     const last = r + GROUP - 1;
-    let base: number;
-    if (r - tMax >= 0 && last - tMin < H) base = o;
-    else if (clip) return false;
-    else if (last - tMin < 0) base = o + W * H;
-    else if (r - tMax >= H) base = o - W * H;
-    else return false;
-    const rowDst = this.rowDst;
-    if (h === undefined) {
-      four(base, o, o + W, o + 2 * W, o + 3 * W, c0, c1);
-      return true;
-    }
-    // Cut points: the strip's ends and, per row, where its store moves (wrap) or starts and stops (clip).
-    const cuts = this.cuts;
+    // Uniform: every row reads all its columns inside (0) or, in wrap, all across the same edge (±N).
+    let uniform: number | null = null;
+    if (r - tMax >= 0 && last - tMin < H) uniform = 0;
+    else if (last - tMin < 0 || r - tMax >= H) {
+      if (clip) return false;
+      uniform = last - tMin < 0 ? N : -N;
+    } else if (order === 0) return false;
+    const { cuts, rowDst, rowSrc, rowIn, rowOut } = this;
+    const rising = order > 0;
     let n = 0;
     cuts[n++] = c0;
     for (let i = 0; i < GROUP; i++) {
-      const s = h[r + i];
+      const s = h === undefined ? 0 : h[r + i];
       if (clip) {
         if (s >= W || s <= -W) return false;
         if (s < 0 && -s > c0 && -s < c1) cuts[n++] = -s;
@@ -323,29 +355,46 @@ export class Renderer<T extends PixelData> {
         const split = W - mod(s, W);
         if (split > c0 && split < c1) cuts[n++] = split;
       }
+      if (uniform === null) {
+        // As in piece: rising shifts read q ≥ H, then inside, then q < 0 along the row; falling ones the reverse.
+        const q = r + i;
+        const b1 = firstPast(this.colShift, c0, c1, rising ? q - H : q, rising);
+        const b2 = firstPast(this.colShift, b1, c1, rising ? q : q - H, rising);
+        rowIn[i] = b1;
+        rowOut[i] = b2;
+        if (b1 > c0 && b1 < c1) cuts[n++] = b1;
+        if (b2 > c0 && b2 < c1) cuts[n++] = b2;
+      }
     }
     cuts[n++] = c1;
     sortShort(cuts, n);
+    const before = rising ? -N : N;
     for (let k = 0; k + 1 < n; k++) {
       const a = cuts[k];
       const b = cuts[k + 1];
       if (a >= b) continue;
-      // Each row's destination offset in this cut (from −W up: the cut's columns are added to it), or DROPPED where clip
-      // drops the cut from that row.
+      // Each row's source and destination offsets in this cut (a destination from −W up: the cut's columns are added
+      // to it), or DROPPED where the row stores nothing of the cut.
       let all = true;
       for (let i = 0, ro = o; i < GROUP; i++, ro += W) {
-        const s = h[r + i];
-        if (clip) {
-          const keep = s < 0 ? a >= -s : b <= W - s;
-          rowDst[i] = keep ? ro + s : DROPPED;
-          if (!keep) all = false;
-        } else {
+        const s = h === undefined ? 0 : h[r + i];
+        let d: number;
+        if (clip) d = (s < 0 ? a >= -s : b <= W - s) ? ro + s : DROPPED;
+        else {
           const m = mod(s, W);
-          rowDst[i] = a < W - m ? ro + m : ro + m - W;
+          d = a < W - m ? ro + m : ro + m - W;
         }
+        const across = uniform ?? (a < rowIn[i] ? before : a < rowOut[i] ? 0 : -before);
+        if (clip && across !== 0) {
+          if (d !== DROPPED) dst.fill(0, d + a, d + b);
+          d = DROPPED;
+        }
+        rowDst[i] = d;
+        rowSrc[i] = ro + across;
+        if (d === DROPPED) all = false;
       }
-      if (all) four(base, rowDst[0], rowDst[1], rowDst[2], rowDst[3], a, b);
-      else for (let i = 0; i < GROUP; i++) if (rowDst[i] !== DROPPED) run(base + i * W, rowDst[i], a, b);
+      if (all) rows(rowSrc, rowDst, a, b);
+      else for (let i = 0; i < GROUP; i++) if (rowDst[i] !== DROPPED) run(rowSrc[i], rowDst[i], a, b);
     }
     return true;
   }
@@ -415,33 +464,42 @@ interface Strip {
 /** dst[d + c] = src[base + colOff[c]] for c in [a, b): one range of the column pass, over planes fixed by the closure. */
 type Gather = (base: number, d: number, a: number, b: number) => void;
 
-/** Rows i = 0 … 3 at once: dst[d_i + c] = src[base + i·W + colOff[c]] for c in [a, b), each column's offset read once. */
-type Gather4 = (base: number, d0: number, d1: number, d2: number, d3: number, a: number, b: number) => void;
+/** GROUP rows i at once: dst[d[i] + c] = src[s[i] + colOff[c]] for c in [a, b), each column's offset read once. */
+type GatherRows = (s: Int32Array, d: Int32Array, a: number, b: number) => void;
 
 /** The column pass's two loops over one pair of planes. */
 interface Gathers {
   readonly one: Gather;
-  readonly four: Gather4;
+  readonly rows: GatherRows;
 }
 
-/** Rows the column pass takes at once where it can (Renderer.group). */
-const GROUP = 4;
-
 /**
- * Strips whose shifts climb at least this many rows per column are gathered row by row. Measured on a 4K RGBA frame
- * (bench/render.bench.ts and a paired run of both ways): four rows at once took a fifth to a third less time from 3° to
- * 30°, the same at 80°, and a quarter more at 45° and 60°, where each column's shift differs from the next one's.
+ * Rows the column pass takes at once (Renderer.group). Measured on a 4K RGBA frame at 34 angles from −89° to 179.5°,
+ * interleaved in one process with the three-copy floor (7.0 ms in that run): row by row, as before, a render took 2.0
+ * to 5.7 times the floor, and which angles were slow looked arbitrary (how the rows a gather reads fall in the caches
+ * and address-translation buffers); 32 rows at a time took 1.7 to 2.3 times it. Each column's offset is read once for
+ * all the rows, and a steep strip reads a few pages per column instead of a new page per pixel. Four rows at a time
+ * still varied from 1.4 to 3.1; 8, 16 and 24 rows lay between; 64 rows were slower again at small angles.
  */
-const GROUP_SLOPE = 0.6;
+const GROUP = 32;
 
 /** Renderer.group's mark for a row that a cut stores nothing of: below any real offset, which is at least −W. */
 const DROPPED = -0x80000000;
 
+/** GATHER_SOURCE's lines for GROUP rows: each row's destination offset and first source pixel, read once per call. */
+function rowsHead(): string {
+  return Array.from({ length: GROUP }, (_, i) => `const d${i} = d[${i}];\n  const b${i} = s[${i}];`).join("\n  ");
+}
+
+/** GATHER_SOURCE's stores of one column for GROUP rows. */
+function rowsStep(): string {
+  return Array.from({ length: GROUP }, (_, i) => `dst[d${i} + c] = src[b${i} + j];`).join("\n    ");
+}
+
 /**
  * The two loops as source text, one for every element type, with the planes, the offsets and the width W as the
- * enclosing function's parameters. One row: unrolled by 8. Four rows: each column's offset is read once for four rows
- * (measured on a 4K RGBA frame, bench/render.bench.ts: the column pass about a fifth faster at 7°, where a row's gather
- * is bound by the loop's own work rather than by memory), two columns per step.
+ * enclosing function's parameters. One row: unrolled by 8. GROUP rows: a column at a time, its offset read once for
+ * all of them.
  */
 const GATHER_SOURCE = `const one = (base, d, a, b) => {
   let c = a;
@@ -458,34 +516,16 @@ const GATHER_SOURCE = `const one = (base, d, a, b) => {
   }
   for (; c < b; c++) dst[d + c] = src[base + colOff[c]];
 };
-const four = (base, d0, d1, d2, d3, a, b) => {
-  const b1 = base + W;
-  const b2 = b1 + W;
-  const b3 = b2 + W;
-  let c = a;
-  for (; c + 1 < b; c += 2) {
+const rows = (s, d, a, b) => {
+  ${rowsHead()}
+  for (let c = a; c < b; c++) {
     const j = colOff[c];
-    const k = colOff[c + 1];
-    dst[d0 + c] = src[base + j];
-    dst[d1 + c] = src[b1 + j];
-    dst[d2 + c] = src[b2 + j];
-    dst[d3 + c] = src[b3 + j];
-    dst[d0 + c + 1] = src[base + k];
-    dst[d1 + c + 1] = src[b1 + k];
-    dst[d2 + c + 1] = src[b2 + k];
-    dst[d3 + c + 1] = src[b3 + k];
-  }
-  if (c < b) {
-    const j = colOff[c];
-    dst[d0 + c] = src[base + j];
-    dst[d1 + c] = src[b1 + j];
-    dst[d2 + c] = src[b2 + j];
-    dst[d3 + c] = src[b3 + j];
+    ${rowsStep()}
   }
 };
-return { one, four };`;
+return { one, rows };`;
 
-type GathersFactory = (src: PixelData, dst: PixelData, colOff: Int32Array, W: number) => Gathers;
+type GathersFactory = (src: PixelData, dst: PixelData, colOff: Int32Array) => Gathers;
 
 /** How many factories have been compiled: each one's source is made unique with it (see compileGathers). */
 let compiled = 0;
@@ -497,7 +537,7 @@ let compiled = 0;
  */
 function compileGathers(): GathersFactory | null {
   try {
-    return new Function("src", "dst", "colOff", "W", `// gathers ${++compiled}\n${GATHER_SOURCE}`) as GathersFactory;
+    return new Function("src", "dst", "colOff", `// gathers ${++compiled}\n${GATHER_SOURCE}`) as GathersFactory;
   } catch {
     return null;
   }
@@ -516,9 +556,9 @@ const sharedFactories = {
   any: compileGathers(),
 };
 
-function gatherFor<T extends PixelData>(src: T, dst: T, colOff: Int32Array, W: number): Gathers {
+function gatherFor<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gathers {
   const factory = dst instanceof Uint32Array ? sharedFactories.u32 : dst instanceof Uint8Array ? sharedFactories.u8 : sharedFactories.any;
-  return (factory ?? plainGathers)(src, dst, colOff, W);
+  return (factory ?? plainGathers)(src, dst, colOff);
 }
 
 /**
@@ -529,24 +569,21 @@ function gatherFor<T extends PixelData>(src: T, dst: T, colOff: Int32Array, W: n
  * has its own, and a second renderer changes nothing of the first's. Where source cannot be compiled at run time (a
  * page whose content security policy forbids it), null: the renderer uses the shared loops above.
  */
-function ownGather<T extends PixelData>(src: T, dst: T, colOff: Int32Array, W: number): Gathers | null {
+function ownGather<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gathers | null {
   const factory = compileGathers();
-  return factory ? factory(src, dst, colOff, W) : null;
+  return factory ? factory(src, dst, colOff) : null;
 }
 
 /** The same two loops written plainly, for where nothing can be compiled at run time. */
-function plainGathers(src: PixelData, dst: PixelData, colOff: Int32Array, W: number): Gathers {
+function plainGathers(src: PixelData, dst: PixelData, colOff: Int32Array): Gathers {
   return {
     one: (base, d, a, b) => {
       for (let c = a; c < b; c++) dst[d + c] = src[base + colOff[c]];
     },
-    four: (base, d0, d1, d2, d3, a, b) => {
+    rows: (s, d, a, b) => {
       for (let c = a; c < b; c++) {
-        const j = base + colOff[c];
-        dst[d0 + c] = src[j];
-        dst[d1 + c] = src[j + W];
-        dst[d2 + c] = src[j + 2 * W];
-        dst[d3 + c] = src[j + 3 * W];
+        const j = colOff[c];
+        for (let i = 0; i < GROUP; i++) dst[d[i] + c] = src[s[i] + j];
       }
     },
   };
