@@ -1,3 +1,5 @@
+import { spawnSync } from "node:child_process";
+import { fileURLToPath } from "node:url";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { Renderer, compileFrame, frameDiagnostics, parseEffect, type Effect, type FrameShifts, type PassNumber } from "../src/index.ts";
@@ -7,6 +9,8 @@ import { distinctPlane, refRender } from "./helpers/reference.ts";
 function render(e: Effect, frame: FrameShifts, src: Uint32Array, pass: PassNumber = 3): Uint32Array {
   return new Renderer<Uint32Array>(e.canvas.width, e.canvas.height, Uint32Array).render(src, frame, e, pass).slice();
 }
+
+const helper = fileURLToPath(new URL("./helpers/renderWithoutEval.ts", import.meta.url));
 
 const sorted = (a: ArrayLike<number>) => Array.from(a).sort((x, y) => x - y);
 
@@ -80,6 +84,10 @@ describe("Renderer draws exactly what spec §5 says, pixel by pixel", () => {
         const words = new Renderer(W, H, Uint32Array);
         words.render(src, still, geometry, 3);
         expect(Array.from(words.render(src, frame, geometry, pass))).toEqual(want);
+        // The loops over a caller's planes are others than those over the renderer's own (render.ts, gatherFor).
+        const wordsInto = new Uint32Array(W * H).fill(0xeeeeeeee);
+        words.renderInto(src, wordsInto, frame, geometry, pass);
+        expect(Array.from(wordsInto)).toEqual(want);
         const bytes = Uint8Array.from(src, (x) => x & 0xff);
         const into = new Uint8Array(W * H).fill(0xee);
         new Renderer(W, H, Uint8Array).renderInto(bytes, into, frame, geometry, pass);
@@ -87,6 +95,43 @@ describe("Renderer draws exactly what spec §5 says, pixel by pixel", () => {
       }),
       { numRuns: 300 },
     );
+  });
+
+  it("draws the same where code cannot be compiled at run time (a content security policy without eval)", () => {
+    // The loops over planes are compiled from source where that is allowed; elsewhere render.ts has them written out.
+    const cases = fc.sample(
+      fc.tuple(nearFrame, fc.constantFrom<PassNumber>(1, 2, 3)).map(([{ geometry, frame }, pass]) => ({
+        geometry,
+        frame,
+        pass,
+        src: Array.from(distinctPlane(geometry.canvas.width, geometry.canvas.height)),
+      })),
+      60,
+    );
+    const child = spawnSync(process.execPath, ["--disallow-code-generation-from-strings", "--import", "tsx", helper], {
+      input: JSON.stringify(cases),
+      encoding: "utf8",
+      maxBuffer: 256 * 1024 * 1024,
+    });
+    expect(child.status, child.stderr).toBe(0);
+    const { compiles, out } = JSON.parse(child.stdout) as { compiles: boolean; out: Record<string, number[]>[] };
+    expect(compiles).toBe(false);
+    cases.forEach(({ geometry, frame, pass, src }, k) => {
+      const want = refRender(src, frame, geometry, pass);
+      expect(out[k].words).toEqual(want);
+      expect(out[k].wordsInto).toEqual(want);
+      const bytes = src.map((x) => x & 0xff);
+      expect(out[k].bytes).toEqual(refRender(bytes, frame, geometry, pass));
+      expect(out[k].bytesInto).toEqual(refRender(bytes, frame, geometry, pass));
+      expect(out[k].halves).toEqual(
+        refRender(
+          src.map((x) => x & 0xffff),
+          frame,
+          geometry,
+          pass,
+        ),
+      );
+    });
   });
 
   it("clip: the top row moved one place left, among rows taken together (its store starts at offset −1)", () => {
