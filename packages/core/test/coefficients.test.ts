@@ -1,8 +1,9 @@
 import fc from "fast-check";
 import { all, create } from "mathjs";
 import { describe, expect, it } from "vitest";
-import { coefficients, roundHalfAway, signedRange, type Bits } from "../src/index.ts";
+import { coefficients, parseEffect, roundHalfAway, signedRange, type Bits } from "../src/index.ts";
 import { expectClose } from "./helpers/expectClose.ts";
+import { refFrames } from "./helpers/reference.ts";
 
 const math = create(all);
 /** mathjs with 60-digit decimals: an outside, high-precision evaluation of tan and sin. */
@@ -99,13 +100,29 @@ describe("coefficients: kα = sat(nearest(−tan(θr/2)·2^F)), kβ = sat(neares
     const radians = big.divide(big.multiply(big.bignumber(n), big.pi), big.bignumber(64 * 180)) as math.BigNumber;
     const scale = big.pow(big.bignumber(2), big.bignumber(fraction)) as math.BigNumber;
     const nearest = (x: math.BigNumber) => {
-      const r = big.floor(big.add(big.abs(x), big.bignumber(0.5)) as math.BigNumber) as math.BigNumber;
+      const r = (big.add(big.abs(x), big.bignumber(0.5)) as math.BigNumber).floor(); // exact (see refFrames' nearestScaled)
       return Number((x.isNegative() ? big.unaryMinus(r) : r).toString());
     };
     const alpha = big.unaryMinus(big.tan(big.divide(radians, 2) as math.BigNumber)) as math.BigNumber;
     const beta = big.sin(radians) as math.BigNumber;
     return { alpha: nearest(big.multiply(alpha, scale) as math.BigNumber), beta: nearest(big.multiply(beta, scale) as math.BigNumber) };
   }
+
+  it("round a value just below a half down: −tan(−38.6875°)·2^30 = 859844870.49969… (mathjs, 60 digits)", () => {
+    // 462.625° with the half-turn flip leaves −77.375°. mathjs's floor, with its relative tolerance of 1e-12, rounds
+    // 859844870.99969… to 859844871, so the 60-digit check below once expected that; the exact nearest is 859844870.
+    const e = parseEffect({
+      canvas: { width: 3, height: 3 },
+      pivot: { x: 1.5, y: 1.5 },
+      angles: { list: [462.625] },
+      fixedPoint: { bits: 32, fraction: 30 },
+      halfTurn: "flip",
+    });
+    const exact = big.multiply(big.tan(big.divide(big.multiply(big.bignumber(38.6875), big.pi), 180) as math.BigNumber), 2 ** 30);
+    expect((exact as math.BigNumber).toFixed(5)).toBe("859844870.49969");
+    expect(coefficients(-77.375, { bits: 32, fraction: 30 }).alpha).toBe(859844870);
+    expect(refFrames(e)[0].alpha).toBe(859844870);
+  });
 
   it("match a 60-digit evaluation with mathjs BigNumber for residual angles in [−90°, 90°] and every format", () => {
     // ±30° is left out: sin is exactly ±1/2 there, a tie that 60 digits cannot settle; the test below covers it.

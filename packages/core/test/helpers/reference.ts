@@ -155,7 +155,9 @@ const big = create(all, { number: "BigNumber", precision: 60 });
 /** nearest(x·2^F) for x given as a BigNumber, half away from zero (spec §3). */
 function nearestScaled(x: BigNumber, fraction: number): number {
   const scaled = big.multiply(x, big.pow(big.bignumber(2), big.bignumber(fraction))) as BigNumber;
-  const r = big.floor(big.add(big.abs(scaled), big.bignumber(0.5)) as BigNumber) as BigNumber;
+  // Decimal's own floor, not mathjs's: that one treats a value within its relative tolerance (1e-12) of an integer as
+  // that integer, which turned 859844870.49969… + 1/2 into 859844871 (test/coefficients.test.ts has that case).
+  const r = (big.add(big.abs(scaled), big.bignumber(0.5)) as BigNumber).floor();
   const n = Number((scaled.isNegative() ? big.unaryMinus(r) : r).toString());
   return n === 0 ? 0 : n;
 }
