@@ -549,7 +549,8 @@ function compileGathers(): GathersFactory | null {
  * the attempt), so that each type's closures only ever see one kind of typed array and their loops stay monomorphic
  * however many renderers (of whatever kinds) the process has. They are made anew for every column pass, so their speed
  * never depends on V8 specialising a single closure to its arrays (the renderer before issue 10 did that: its first
- * renderer ran up to 1.8 times faster than a second one). Where source cannot be compiled, the loops below.
+ * renderer ran up to 1.8 times faster than a second one). Where source cannot be compiled, the loops below, shared by
+ * all kinds.
  */
 const sharedFactories = new Map<string, GathersFactory | null>();
 
@@ -557,54 +558,15 @@ function gatherFor<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gat
   const kind = dst instanceof Uint32Array ? "u32" : dst instanceof Uint8Array ? "u8" : "any";
   let factory = sharedFactories.get(kind);
   if (factory === undefined) sharedFactories.set(kind, (factory = compileGathers()));
-  if (factory) return factory(src, dst, colOff);
-  if (dst instanceof Uint32Array) return gathers32(src as Uint32Array, dst, colOff);
-  if (dst instanceof Uint8Array) return gathers8(src as Uint8Array, dst, colOff);
-  return plainGathers(src, dst, colOff);
+  return factory ? factory(src, dst, colOff) : writtenGathers(src, dst, colOff);
 }
 
 /**
- * The loops for 32-bit planes where nothing can be compiled at run time (a worker or page whose content security policy
- * forbids it), written out so that they only ever see one kind of array. GROUP rows go four at a time: without
- * compiled-in locals for all of them, a loop over the rows for every column measured about three times as slow.
+ * The loops for where nothing can be compiled at run time (a worker or page whose content security policy forbids it),
+ * for every element type. GROUP rows go four at a time: without compiled-in locals for all of them, a loop over the
+ * rows for every column measured about three times as slow.
  */
-function gathers32(src: Uint32Array, dst: Uint32Array, colOff: Int32Array): Gathers {
-  return {
-    one: (base, d, a, b) => {
-      let c = a;
-      for (; c + 3 < b; c += 4) {
-        const p = d + c;
-        dst[p] = src[base + colOff[c]];
-        dst[p + 1] = src[base + colOff[c + 1]];
-        dst[p + 2] = src[base + colOff[c + 2]];
-        dst[p + 3] = src[base + colOff[c + 3]];
-      }
-      for (; c < b; c++) dst[d + c] = src[base + colOff[c]];
-    },
-    rows: (s, d, a, b) => {
-      for (let i = 0; i < GROUP; i += 4) {
-        const s0 = s[i];
-        const s1 = s[i + 1];
-        const s2 = s[i + 2];
-        const s3 = s[i + 3];
-        const d0 = d[i];
-        const d1 = d[i + 1];
-        const d2 = d[i + 2];
-        const d3 = d[i + 3];
-        for (let c = a; c < b; c++) {
-          const j = colOff[c];
-          dst[d0 + c] = src[s0 + j];
-          dst[d1 + c] = src[s1 + j];
-          dst[d2 + c] = src[s2 + j];
-          dst[d3 + c] = src[s3 + j];
-        }
-      }
-    },
-  };
-}
-
-/** gathers32 for palette planes. */
-function gathers8(src: Uint8Array, dst: Uint8Array, colOff: Int32Array): Gathers {
+function writtenGathers(src: PixelData, dst: PixelData, colOff: Int32Array): Gathers {
   return {
     one: (base, d, a, b) => {
       let c = a;
@@ -650,21 +612,6 @@ function gathers8(src: Uint8Array, dst: Uint8Array, colOff: Int32Array): Gathers
 function ownGather<T extends PixelData>(src: T, dst: T, colOff: Int32Array): Gathers | null {
   const factory = compileGathers();
   return factory ? factory(src, dst, colOff) : null;
-}
-
-/** The same two loops for any other element type (16-bit planes). */
-function plainGathers(src: PixelData, dst: PixelData, colOff: Int32Array): Gathers {
-  return {
-    one: (base, d, a, b) => {
-      for (let c = a; c < b; c++) dst[d + c] = src[base + colOff[c]];
-    },
-    rows: (s, d, a, b) => {
-      for (let c = a; c < b; c++) {
-        const j = colOff[c];
-        for (let i = 0; i < GROUP; i++) dst[d[i] + c] = src[s[i] + j];
-      }
-    },
-  };
 }
 
 /** Sorts the first n entries of a short list in place (insertion sort: a group's cuts are a few dozen at most). */
