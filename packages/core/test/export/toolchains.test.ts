@@ -290,7 +290,9 @@ int main(void)
         ["sdcc", ["-mz80", "-c"]],
         ["sdcc", ["-msm83", "-c"]],
         ["arm-none-eabi-gcc", ["-mthumb", ...STRICT_C, "-c"]],
-        ["m68k-linux-gnu-gcc", [...STRICT_C, "-c"]],
+        // A 68000 homebrew target is bare metal, with no Linux C library: freestanding, GCC's own <stdint.h> serves (and
+        // Debian's libc6-dev-m68k-cross, only recommended by the compiler, is not needed).
+        ["m68k-linux-gnu-gcc", ["-ffreestanding", ...STRICT_C, "-c"]],
       ];
       const runtime = readFileSync(file(`${L}_runtime.c`), "utf8");
       // cc65 has no 64-bit integer type: a format whose products need one keeps its tables on the 6502 (the file says so).
