@@ -144,7 +144,11 @@ export function compileShifts(effect: Effect): CompiledTables<FrameTables> {
  * track's diagnostics are spread over worker threads where Node has them (options.workers); the figures are the same.
  */
 export function compileTables(effect: Effect, options: CompileOptions = {}): CompiledTables {
-  const { elementType: type, frames } = compileShifts(effect);
-  const diagnostics = diagnoseTrack(effect, frames, options);
-  return { effect, elementType: type, frames: frames.map((f, i) => ({ ...f, ...diagnostics[i] })) };
+  const shifts = compileShifts(effect);
+  return withDiagnostics(shifts, diagnoseTrack(effect, shifts.frames, options));
+}
+
+/** Compiled frames with each frame's diagnostics added (in frame order): what compileTables returns. */
+export function withDiagnostics(tables: CompiledTables<FrameTables>, diagnostics: readonly FrameDiagnostics[]): CompiledTables {
+  return { effect: tables.effect, elementType: tables.elementType, frames: tables.frames.map((f, i) => ({ ...f, ...diagnostics[i] })) };
 }

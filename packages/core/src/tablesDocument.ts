@@ -70,23 +70,46 @@ export function collapseNumberArrays(json: string): string {
   return json.replace(/\[\s+(-?[\d.eE+-]+(?:,\s+-?[\d.eE+-]+)*)\s+\]/g, (_, body: string) => `[${body.split(/,\s+/).join(", ")}]`);
 }
 
+/** The text of shift tables as the tables document prints them (`[1, -2, 3]` indented, `[1,-2,3]` not), by table. */
+export interface TableListTexts {
+  readonly indent: boolean;
+  readonly texts: Map<ArrayLike<number>, string>;
+}
+
+/** A table's text from `lists`, printed and kept there when it is new. */
+function listText(lists: TableListTexts, t: Int32Array): string {
+  let s = lists.texts.get(t);
+  if (s === undefined) {
+    s = `[${t.join(lists.indent ? ", " : ",")}]`;
+    lists.texts.set(t, s);
+  }
+  return s;
+}
+
+/**
+ * The h and v tables of `frames` printed as tablesDocumentText will print them: done ahead, while a long track's
+ * diagnostics are still being measured on worker threads, the document after them has only the figures left to print.
+ */
+export function tableListTexts(frames: readonly { readonly h: Int32Array; readonly v: Int32Array }[], indent: boolean): TableListTexts {
+  const lists: TableListTexts = { indent, texts: new Map() };
+  for (const f of frames) {
+    listText(lists, f.h);
+    listText(lists, f.v);
+  }
+  return lists;
+}
+
 /**
  * The tables document (spec §8) as JSON text, the very text `JSON.stringify(tablesDocument(tables))` gives (or, with
  * `indent`, that of `JSON.stringify(…, null, 2)` with every array of numbers on one line), written straight from the
  * typed arrays. Frames that share a table (compileShifts shares one per coefficient) share its text too, so a long track
- * formats each distinct table once instead of building and printing an array of numbers per frame.
+ * formats each distinct table once instead of building and printing an array of numbers per frame. `lists` holds
+ * tables already printed with the same `indent` (tableListTexts), and takes those printed here.
  */
-export function tablesDocumentText(tables: CompiledTables, indent = false): string {
-  const texts = new Map<ArrayLike<number>, string>();
-  const sep = indent ? ", " : ",";
-  const list = (t: Int32Array): string => {
-    let s = texts.get(t);
-    if (s === undefined) {
-      s = `[${t.join(sep)}]`;
-      texts.set(t, s);
-    }
-    return s;
-  };
+export function tablesDocumentText(tables: CompiledTables, indent = false, lists: TableListTexts = tableListTexts([], indent)): string {
+  if (lists.indent !== indent)
+    throw new RangeError(`lists: printed with indent ${lists.indent}; allowed only lists printed with indent ${indent}`);
+  const list = (t: Int32Array): string => listText(lists, t);
   const num = (x: number) => JSON.stringify(x);
   const parts: string[] = [];
   if (!indent) {

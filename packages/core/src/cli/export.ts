@@ -116,13 +116,17 @@ export async function readExportArgs<T extends Record<string, { type: "string" |
   return { effect, options, values: values as Record<string, string | boolean | undefined> };
 }
 
-/** Runs `body`, turning an ExportOptionError into a UsageError that names the command-line option. */
+/** Runs `body`, turning an ExportOptionError (thrown, or rejecting the promise it returns) into a UsageError that names the command-line option. */
 export function withOptionErrors<T>(body: () => T): T {
-  try {
-    return body();
-  } catch (error) {
+  const restate = (error: unknown): never => {
     if (error instanceof ExportOptionError) throw optionUsageError(error);
     throw error;
+  };
+  try {
+    const result = body();
+    return (result instanceof Promise ? result.catch(restate) : result) as T;
+  } catch (error) {
+    return restate(error);
   }
 }
 
@@ -153,8 +157,11 @@ ${exportOptionsHelp}`,
     const out = values.out as string | undefined;
     const zip = values.zip as string | undefined;
     if (out === undefined && zip === undefined) throw new UsageError("--out DIR or --zip FILE is required (where to write the bundle)");
-    const { exportBundle } = await import("../export/bundle.ts");
-    const bundle = withOptionErrors(() => exportBundle(effect, options));
+    const { exportBundle, exportBundleZipping } = await import("../export/bundle.ts");
+    const bundle =
+      zip === undefined
+        ? withOptionErrors(() => exportBundle(effect, options))
+        : await withOptionErrors(() => exportBundleZipping(effect, options));
     if (out !== undefined) {
       await mkdir(out, { recursive: true });
       for (const f of bundle.files) {

@@ -19,20 +19,27 @@ options:
     const { positionals, values } = parseCommandArgs(args, { pretty: { type: "boolean" } });
     // The work is loaded when a command runs, so that --help and --version start at once; a large track's diagnostics
     // workers start first, to load beside the rest.
-    const [{ readEffectFile }, { tablesText }, { compileTables }, { tablesDocumentPieces }] = await Promise.all([
-      import("./readEffectFile.ts"),
-      import("../tablesDocument.ts"),
-      import("../compileTables.ts"),
-      import("../export/json.ts"),
-      prepareDiagnostics(positionals[0], io),
-    ]);
+    const [{ readEffectFile }, { tablesText, tableListTexts }, { compileShifts, withDiagnostics }, { beginDiagnoseTrack }, json] =
+      await Promise.all([
+        import("./readEffectFile.ts"),
+        import("../tablesDocument.ts"),
+        import("../compileTables.ts"),
+        import("../diagnostics/diagnoseTrack.ts"),
+        import("../export/json.ts"),
+        prepareDiagnostics(positionals[0], io),
+      ]);
     const effect = await readEffectFile(positionals[0], io);
     if (values.pretty) {
       io.stdout(tablesText(effect, { pretty: true }));
       return 0;
     }
     // tablesText's very bytes, printed a few hundred frames at a time rather than built whole and then encoded whole.
-    for (const piece of tablesDocumentPieces(compileTables(effect), false)) io.stdout(piece);
+    // The tables are printed while the workers measure; the figures are added once they are in.
+    const shifts = compileShifts(effect);
+    const pending = beginDiagnoseTrack(effect, shifts.frames);
+    const lists = tableListTexts(shifts.frames, false);
+    const tables = withDiagnostics(shifts, pending.finish());
+    for (const piece of json.tablesDocumentPieces(tables, false, json.FRAMES_PER_PIECE, lists)) io.stdout(piece);
     io.stdout("\n");
     return 0;
   },

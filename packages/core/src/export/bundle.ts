@@ -1,6 +1,5 @@
-import { compileShifts, type CompiledTables, type FrameTables } from "../compileTables.ts";
+import { compileShifts, withDiagnostics } from "../compileTables.ts";
 import { beginDiagnoseTrack } from "../diagnostics/diagnoseTrack.ts";
-import type { FrameDiagnostics } from "../frameDiagnostics.ts";
 import type { Effect } from "../effect.ts";
 import { armDialect } from "./arm.ts";
 import { assemblyLines } from "./asm.ts";
@@ -10,14 +9,15 @@ import { cHeader, cSourceLines } from "./c.ts";
 import { ca65Dialect } from "./ca65.ts";
 import { alwaysFiles, outputFiles } from "./files.ts";
 import { effectFileName } from "./header.ts";
-import { tablesDocumentPieces } from "./json.ts";
+import { FRAMES_PER_PIECE, tablesDocumentPieces } from "./json.ts";
+import { tableListTexts } from "../tablesDocument.ts";
 import { layoutFromTables, type ExportLayout } from "./layout.ts";
 import { m68kDialect } from "./m68k.ts";
 import { resolveExportOptions, type ExportOptions, type ExportOptionsInput, type ExportOutput } from "./options.ts";
 import { readmeText } from "./readme.ts";
 import { runtimeSource } from "./runtime.ts";
 import { z80Dialect } from "./z80.ts";
-import { zipArchive, zipArchiveAsync, type TextPieces, type ZipSource } from "./zip.ts";
+import { zipArchive, zipArchiveAsync, zipWriter, type TextPieces, type ZipSource, type ZipWriter } from "./zip.ts";
 
 /** One file of an export bundle: its name, its text (null for the binaries) and its bytes. */
 export interface BundleFile {
@@ -73,65 +73,47 @@ function piecesFile(name: string, pieces: readonly string[], separator: string):
   return file;
 }
 
-/** The files as the zip reads them: a text file of outputTexts by its pieces, every other by its bytes. */
-function zipSources(files: readonly BundleFile[]): ZipSource[] {
-  return files.map((f) => {
-    const pieces = filePieces.get(f);
-    return pieces
-      ? {
-          name: f.name,
-          pieces,
-          get bytes() {
-            return f.bytes;
-          },
-        }
-      : f;
-  });
+/** A file as the zip reads it: a text file of outputTexts by its pieces, every other by its bytes. */
+function zipSource(f: BundleFile): ZipSource {
+  const pieces = filePieces.get(f);
+  return pieces
+    ? {
+        name: f.name,
+        pieces,
+        get bytes() {
+          return f.bytes;
+        },
+      }
+    : f;
 }
 
-/** The text of every output file for a layout, by file name, in bundle order (README and effect document excepted); `json` gives the tables document as pieces (tablesDocumentPieces). */
-export function outputTexts(layout: ExportLayout, json: () => readonly string[], onOutput?: (output: ExportOutput) => void): BundleFile[] {
-  const names = outputFiles(layout.label);
+/**
+ * The files of one output for a layout, in bundle order; `json` gives the tables document as pieces
+ * (tablesDocumentPieces).
+ */
+export function outputFilesOf(layout: ExportLayout, output: ExportOutput, json: () => readonly string[]): BundleFile[] {
+  const n = outputFiles(layout.label)[output];
   const text = (name: string, t: string): BundleFile => piecesFile(name, [t], "");
   const lines = (name: string, l: readonly string[]): BundleFile => piecesFile(name, l, "\n");
   const raw = (name: string, bytes: Uint8Array): BundleFile => ({ name, text: null, bytes });
-  const files: BundleFile[] = [];
-  for (const output of layout.options.outputs) {
-    const n = names[output];
-    switch (output) {
-      case "c":
-        files.push(text(n[0], cHeader(layout)), lines(n[1], cSourceLines(layout)));
-        break;
-      case "6502":
-        files.push(lines(n[0], assemblyLines(layout, ca65Dialect)));
-        break;
-      case "68k":
-        files.push(lines(n[0], assemblyLines(layout, m68kDialect)));
-        break;
-      case "arm":
-        files.push(lines(n[0], assemblyLines(layout, armDialect)));
-        break;
-      case "z80":
-        files.push(lines(n[0], assemblyLines(layout, z80Dialect)));
-        break;
-      case "bin":
-        files.push(raw(n[0], binaryExport(layout, "little")), raw(n[1], binaryExport(layout, "big")));
-        break;
-      case "json":
-        files.push(piecesFile(n[0], [...json(), "\n"], ""));
-        break;
-      case "runtime":
-        files.push(text(n[0], runtimeSource(layout)));
-        break;
-    }
-    onOutput?.(output);
+  switch (output) {
+    case "c":
+      return [text(n[0], cHeader(layout)), lines(n[1], cSourceLines(layout))];
+    case "6502":
+      return [lines(n[0], assemblyLines(layout, ca65Dialect))];
+    case "68k":
+      return [lines(n[0], assemblyLines(layout, m68kDialect))];
+    case "arm":
+      return [lines(n[0], assemblyLines(layout, armDialect))];
+    case "z80":
+      return [lines(n[0], assemblyLines(layout, z80Dialect))];
+    case "bin":
+      return [raw(n[0], binaryExport(layout, "little")), raw(n[1], binaryExport(layout, "big"))];
+    case "json":
+      return [piecesFile(n[0], [...json(), "\n"], "")];
+    case "runtime":
+      return [text(n[0], runtimeSource(layout))];
   }
-  return files;
-}
-
-/** Compiled tables with each frame's diagnostics added: what compileTables returns. */
-function withDiagnostics(tables: CompiledTables<FrameTables>, diagnostics: readonly FrameDiagnostics[]): CompiledTables {
-  return { effect: tables.effect, elementType: tables.elementType, frames: tables.frames.map((f, i) => ({ ...f, ...diagnostics[i] })) };
 }
 
 /**
@@ -142,6 +124,41 @@ function withDiagnostics(tables: CompiledTables<FrameTables>, diagnostics: reado
  * can show how far it has got.
  */
 export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, onProgress?: BundleProgress): ExportBundle {
+  const steps = bundleSteps(effect, options, onProgress, null);
+  const last = steps.next();
+  if (!last.done) throw new Error("exportBundle: a bundle made without a zip writer waited for one");
+  return last.value;
+}
+
+/**
+ * exportBundle for a caller that will write the zip (the command line): each file goes to be deflated (zipWriter) as
+ * soon as it is made, on Node's thread pool while this thread makes the next and a long track's diagnostics run, and
+ * `zipAsync` gives that archive. The same files and zip bytes as exportBundle, sooner.
+ */
+export async function exportBundleZipping(
+  effect: Effect,
+  options: ExportOptionsInput = {},
+  onProgress?: BundleProgress,
+): Promise<ExportBundle> {
+  const steps = bundleSteps(effect, options, onProgress, zipWriter(ZIP_DATE));
+  try {
+    for (let step = steps.next(); ; step = steps.next(await step.value)) if (step.done) return step.value;
+  } catch (error) {
+    steps.return(undefined as never);
+    throw error;
+  }
+}
+
+/**
+ * The work of exportBundle, as a generator that yields a promise wherever `writer` asks to wait for a buffer (never
+ * without a writer) and returns the bundle.
+ */
+function* bundleSteps(
+  effect: Effect,
+  options: ExportOptionsInput,
+  onProgress: BundleProgress | undefined,
+  writer: ZipWriter | null,
+): Generator<Promise<void>, ExportBundle, void> {
   const resolved = resolveExportOptions(options);
   const total = resolved.outputs.length + 1;
   let done = 0;
@@ -157,15 +174,24 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, o
   // writes the other outputs, and collected when the document is written (outputs come in EXPORT_OUTPUTS order, the
   // document after every table file).
   const diagnostics = resolved.outputs.includes("json") ? beginDiagnoseTrack(effect, tables.frames) : null;
+  const json = () => {
+    const lists = tableListTexts(tables.frames, true);
+    return tablesDocumentPieces(withDiagnostics(tables, diagnostics!.finish()), true, FRAMES_PER_PIECE, lists);
+  };
+  let zipIndex = 1; // README.txt is the zip's first file; it is made last, once every name is known
   let layout: ExportLayout;
-  let outputs: BundleFile[];
+  const outputs: BundleFile[] = [];
   try {
     layout = layoutFromTables(tables, resolved);
-    outputs = outputTexts(
-      layout,
-      () => tablesDocumentPieces(withDiagnostics(tables, diagnostics!.finish()), true),
-      (output) => step(output),
-    );
+    for (const output of resolved.outputs) {
+      const made = outputFilesOf(layout, output, json);
+      outputs.push(...made);
+      step(output);
+      for (const f of made) {
+        const wait = writer?.add(zipIndex++, zipSource(f));
+        if (wait) yield wait;
+      }
+    }
   } finally {
     diagnostics?.cancel();
   }
@@ -179,16 +205,21 @@ export function exportBundle(effect: Effect, options: ExportOptionsInput = {}, o
     ...outputs,
     { name: effectFileName(layout.label), text: effectText, bytes: enc.encode(effectText) },
   ];
+  if (writer) {
+    // Files given by their bytes never wait.
+    void writer.add(0, files[0]);
+    void writer.add(zipIndex, files[files.length - 1]);
+  }
   let zip: Uint8Array | undefined;
   return {
     label: layout.label,
     options: resolved,
     files,
     get zip() {
-      return (zip ??= zipArchive(zipSources(files), ZIP_DATE));
+      return (zip ??= zipArchive(files.map(zipSource), ZIP_DATE));
     },
     async zipAsync() {
-      return (zip ??= await zipArchiveAsync(zipSources(files), ZIP_DATE));
+      return (zip ??= await (writer ? writer.finish() : zipArchiveAsync(files.map(zipSource), ZIP_DATE)));
     },
     budget,
   };

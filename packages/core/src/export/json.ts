@@ -1,5 +1,5 @@
 import type { CompiledTables } from "../compileTables.ts";
-import { tablesDocumentText } from "../tablesDocument.ts";
+import { tableListTexts, tablesDocumentText, type TableListTexts } from "../tablesDocument.ts";
 
 /** The tables document (spec §8) as JSON text, indented, with every array of numbers kept on one line so frames stay readable. */
 export function tablesJson(tables: CompiledTables): string {
@@ -15,7 +15,12 @@ export const FRAMES_PER_PIECE = 256;
  * cannot disagree; a caller writes or encodes them one by one instead of building the whole text (megabytes for a long
  * track) and then an encoded copy of it.
  */
-export function tablesDocumentPieces(tables: CompiledTables, indent: boolean, framesPerPiece: number = FRAMES_PER_PIECE): string[] {
+export function tablesDocumentPieces(
+  tables: CompiledTables,
+  indent: boolean,
+  framesPerPiece: number = FRAMES_PER_PIECE,
+  lists: TableListTexts = tableListTexts([], indent),
+): string[] {
   if (!Number.isInteger(framesPerPiece) || framesPerPiece < 1)
     throw new RangeError(`framesPerPiece: ${framesPerPiece} is not allowed; allowed a whole number from 1`);
   const tail = indent ? "\n  ]\n}" : "]}";
@@ -25,7 +30,7 @@ export function tablesDocumentPieces(tables: CompiledTables, indent: boolean, fr
   const head = empty.slice(0, empty.length - tail.length);
   const pieces = [head];
   for (let a = 0; a < tables.frames.length; a += framesPerPiece) {
-    const text = tablesDocumentText({ ...tables, frames: tables.frames.slice(a, a + framesPerPiece) }, indent);
+    const text = tablesDocumentText({ ...tables, frames: tables.frames.slice(a, a + framesPerPiece) }, indent, lists);
     if (a > 0) pieces.push(",");
     pieces.push(text.slice(head.length, text.length - tail.length));
   }

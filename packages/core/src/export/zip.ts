@@ -50,6 +50,14 @@ export interface ZipSource {
   readonly pieces?: TextPieces;
 }
 
+/** One deflated file of a zip: its name, size and CRC-32 before deflating, and its raw deflate stream. */
+interface ZipEntry {
+  readonly name: string;
+  readonly size: number;
+  readonly crc: number;
+  readonly deflated: Uint8Array;
+}
+
 /** UTF-16 code units of a text given as pieces; its UTF-8 takes at most three bytes for each. */
 function codeUnits({ pieces, separator }: TextPieces): number {
   let n = separator.length * Math.max(0, pieces.length - 1);
@@ -90,7 +98,7 @@ export async function zipArchiveAsync(files: readonly ZipSource[], mtime: Date):
   const SLOTS = 2;
   const encoders = piecesEncoder(files, SLOTS);
   const busy: Promise<unknown>[] = [];
-  const pending: Promise<{ name: string; size: number; crc: number; deflated: Uint8Array }>[] = [];
+  const pending: Promise<ZipEntry>[] = [];
   for (let i = 0; i < files.length; i++) {
     const f = files[i];
     const slot = i % SLOTS;
@@ -106,6 +114,112 @@ export async function zipArchiveAsync(files: readonly ZipSource[], mtime: Date):
   return container(await Promise.all(pending), mtime);
 }
 
+/** Files handed to a zip one by one as they are made, each deflated as soon as it can be; `finish` gives the archive. */
+export interface ZipWriter {
+  /**
+   * Takes the archive's file number `index` (numbers from 0, each once, in any order). Returns undefined when the file
+   * is on its way, or a promise when it must wait for a buffer: the file is taken once that settles, and the next `add`
+   * waits for it.
+   */
+  add(index: number, file: ZipSource): Promise<void> | undefined;
+  /** The archive of every file added, in index order: the same bytes as zipArchive of them. */
+  finish(): Promise<Uint8Array>;
+}
+
+/**
+ * A ZipWriter whose files go to Node's zlib on its thread pool as soon as they are added, while the caller goes on
+ * making the next (and a long track's diagnostics run meanwhile): the very same bytes as zipArchive. Texts given as
+ * pieces are encoded into two buffers in turn, each written again only once the deflate reading it has finished (on a
+ * machine that pays dearly for fresh memory pages, a buffer per file cost more than the overlap saved). Where there is
+ * no Node zlib, the files wait for `finish` and zipArchive.
+ */
+export function zipWriter(mtime: Date): ZipWriter {
+  const zlib = nodeZlib();
+  const sources: ZipSource[] = [];
+  const take = (index: number, file: ZipSource) => {
+    if (!Number.isInteger(index) || index < 0 || sources[index] !== undefined)
+      throw new RangeError(`zip: file number ${index} is not allowed; allowed a whole number from 0, each once`);
+    sources[index] = file;
+  };
+  if (zlib === undefined)
+    return {
+      add(index, file) {
+        take(index, file);
+        return undefined;
+      },
+      finish: async () => zipArchive(dense(sources), mtime),
+    };
+  const SLOTS = 2;
+  const encoder = new TextEncoder();
+  const buffers: Uint8Array[] = [];
+  const reading: (Promise<unknown> | null)[] = [];
+  const entries: Promise<ZipEntry>[] = [];
+  let turn = 0;
+  const start = (index: number, name: string, bytes: Uint8Array): Promise<ZipEntry> => {
+    const size = bytes.length;
+    const crc = zlib.crc32(bytes);
+    const entry = new Promise<ZipEntry>((resolve, reject) =>
+      zlib.deflateRaw(bytes, { level: ZIP_LEVEL }, (error, deflated) => (error ? reject(error) : resolve({ name, size, crc, deflated }))),
+    );
+    // A writer dropped before `finish` (its bundle failed) must not leave a rejection unheard.
+    entry.catch(() => undefined);
+    entries[index] = entry;
+    return entry;
+  };
+  return {
+    add(index, file) {
+      take(index, file);
+      const pieces = file.pieces;
+      if (pieces === undefined) {
+        start(index, file.name, file.bytes);
+        return undefined;
+      }
+      const slot = turn;
+      turn = (turn + 1) % SLOTS;
+      const go = () => {
+        const most = codeUnits(pieces) * 3;
+        let buffer = buffers[slot];
+        if (buffer === undefined || buffer.length < most) buffer = buffers[slot] = new Uint8Array(most);
+        const done = start(index, file.name, encodePieces(encoder, pieces, buffer)).then(
+          () => undefined,
+          () => undefined,
+        );
+        reading[slot] = done;
+        void done.then(() => {
+          if (reading[slot] === done) reading[slot] = null;
+        });
+      };
+      const busy = reading[slot];
+      if (!busy) {
+        go();
+        return undefined;
+      }
+      return busy.then(go);
+    },
+    async finish() {
+      dense(sources);
+      return container(await Promise.all(entries), mtime);
+    },
+  };
+}
+
+/** The files of a writer, checked to have no gap. */
+function dense(sources: ZipSource[]): ZipSource[] {
+  for (let i = 0; i < sources.length; i++)
+    if (sources[i] === undefined) throw new RangeError(`zip: file number ${i} was never added; allowed numbers with no gap from 0`);
+  return sources;
+}
+
+/** Writes a text given as pieces as UTF-8 (as TextEncoder does) into `into`, which must hold it; returns the bytes written. */
+function encodePieces(encoder: InstanceType<typeof TextEncoder>, { pieces, separator }: TextPieces, into: Uint8Array): Uint8Array {
+  let at = 0;
+  for (let i = 0; i < pieces.length; i++) {
+    if (i > 0) at += encoder.encodeInto(separator, into.subarray(at)).written;
+    at += encoder.encodeInto(pieces[i], into.subarray(at)).written;
+  }
+  return into.subarray(0, at);
+}
+
 /**
  * `count` encoders of texts given as pieces, each writing into a buffer of its own (made once, large enough for the
  * largest such file) and returning a view of it, valid until its next call.
@@ -116,23 +230,12 @@ function piecesEncoder(files: readonly ZipSource[], count: number): ((text: Text
   const encoder = new TextEncoder();
   return Array.from({ length: count }, () => {
     let scratch: Uint8Array | undefined;
-    return ({ pieces, separator }: TextPieces): Uint8Array => {
-      scratch ??= new Uint8Array(largest * 3);
-      let at = 0;
-      for (let i = 0; i < pieces.length; i++) {
-        if (i > 0) at += encoder.encodeInto(separator, scratch.subarray(at)).written;
-        at += encoder.encodeInto(pieces[i], scratch.subarray(at)).written;
-      }
-      return scratch.subarray(0, at);
-    };
+    return (text: TextPieces): Uint8Array => encodePieces(encoder, text, (scratch ??= new Uint8Array(largest * 3)));
   });
 }
 
 /** The zip container (fflate's: local headers with data descriptors, then the central directory) of deflated entries. */
-function container(
-  entries: readonly { readonly name: string; readonly size: number; readonly crc: number; readonly deflated: Uint8Array }[],
-  mtime: Date,
-): Uint8Array {
+function container(entries: readonly ZipEntry[], mtime: Date): Uint8Array {
   const chunks: Uint8Array[] = [];
   let failure: Error | null = null;
   const zip = new Zip((error, data) => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { compileTables, parseEffect, tablesJson, tablesText } from "../../src/index.ts";
 import { tablesDocumentPieces } from "../../src/export/json.ts";
-import { tablesDocumentText } from "../../src/tablesDocument.ts";
+import { tableListTexts, tablesDocumentText } from "../../src/tablesDocument.ts";
 
 const effects = [
   parseEffect({ canvas: { width: 6, height: 4 }, pivot: { x: 3, y: 2 }, angles: { list: [17] } }),
@@ -21,6 +21,20 @@ describe("tablesDocumentPieces", () => {
       expect(tablesDocumentPieces(tables, true, per).join("")).toBe(tablesDocumentText(tables, true));
       expect(`${tablesDocumentPieces(tables, true, per).join("")}\n`).toBe(tablesJson(tables));
       expect(`${tablesDocumentPieces(tables, false, per).join("")}\n`).toBe(tablesText(effect));
+    }
+  });
+
+  it("join into the same text with the tables printed ahead (tableListTexts), and refuse tables printed the other way", () => {
+    for (const effect of effects) {
+      const tables = compileTables(effect);
+      for (const indent of [false, true]) {
+        const lists = tableListTexts(tables.frames, indent);
+        expect(lists.texts.size).toBeGreaterThan(0);
+        expect(tablesDocumentPieces(tables, indent, 3, lists).join("")).toBe(tablesDocumentText(tables, indent));
+        expect(() => tablesDocumentPieces(tables, !indent, 3, lists)).toThrow(
+          `lists: printed with indent ${indent}; allowed only lists printed with indent ${!indent}`,
+        );
+      }
     }
   });
 

@@ -3,7 +3,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { unzipSync } from "fflate";
 import { describe, expect, it } from "vitest";
-import { FFLATE_ZIP_CODEC, zipArchive, zipArchiveAsync } from "../../src/export/zip.ts";
+import { FFLATE_ZIP_CODEC, zipArchive, zipArchiveAsync, zipWriter, type ZipSource } from "../../src/export/zip.ts";
 import { run, runBytes } from "./toolchain.ts";
 
 describe("zipArchive", () => {
@@ -52,6 +52,45 @@ describe("zipArchive", () => {
     }));
     const all = [...files, ...many];
     expect(await zipArchiveAsync(all, date)).toEqual(zipArchive(all, date));
+  });
+
+  it("gives the same bytes adding files one by one (zipWriter), in any order, as zipArchive of them", async () => {
+    // More texts than the writer's two buffers, added in turn to buffers 0, 1, 0, 1, 0: the third and fourth are
+    // smaller than the buffer they reuse (so they wait for its deflate), the fifth larger (so it grows). Files given by
+    // their bytes come between them.
+    const lines = [600, 200, 400, 800, 300];
+    const text = (i: number): ZipSource => ({
+      name: `t${i}.s`,
+      bytes: new Uint8Array(0),
+      // Values that hardly compress, so that each deflate spans several of zlib's output chunks (and callbacks).
+      pieces: {
+        pieces: Array.from(
+          { length: lines[i] * 200 },
+          (_, j) => `        .word   $${(Math.imul(j + 1, 0x9e3779b1 + i) >>> 12).toString(16)} ; ✓`,
+        ),
+        separator: "\n",
+      },
+    });
+    const all: ZipSource[] = [files[0], text(0), text(1), files[1], text(2), text(3), files[2], text(4)];
+    const order = [3, 1, 0, 4, 2, 7, 5, 6];
+    const writer = zipWriter(date);
+    for (const i of order) await writer.add(i, all[i]);
+    const zip = await writer.finish();
+    // Compared as buffers: a failing toEqual of megabytes would take minutes to print.
+    expect(Buffer.from(zip).equals(Buffer.from(zipArchive(all, date)))).toBe(true);
+    const back = unzipSync(zip);
+    expect(new TextDecoder().decode(back["t4.s"])).toBe(all[7].pieces!.pieces.join("\n"));
+  });
+
+  it("refuses a file number given twice or left out, naming the allowed numbers", async () => {
+    const twice = zipWriter(date);
+    await twice.add(0, files[0]);
+    expect(() => twice.add(0, files[1])).toThrow("zip: file number 0 is not allowed; allowed a whole number from 0, each once");
+    expect(() => twice.add(-1, files[1])).toThrow("zip: file number -1 is not allowed");
+    const gap = zipWriter(date);
+    await gap.add(0, files[0]);
+    await gap.add(2, files[2]);
+    await expect(gap.finish()).rejects.toThrow("zip: file number 1 was never added; allowed numbers with no gap from 0");
   });
 
   it("gives the same bytes for the same files (a fixed date, no clock)", () => {
